@@ -7,7 +7,12 @@
 #include <optional>
 #include <string>
 
-#include "curve/curve.hpp"
+#include <nlohmann/json.hpp>
+
+#include <ostream>
+#include <vector>
+
+#include "curve/point.hpp"
 
 namespace arcsieve::cli {
 
@@ -33,5 +38,10 @@ void add_problem_options(CLI::App& command, ProblemOptions& options);
 Problem resolve_problem(const ProblemOptions& options);
 
 void register_inspect(CLI::App& app, Context& context);
+
+// Analytic part of `inspect` (periods, components, and per point its component, elliptic log
+// and canonical height): appends to the JSON record and to the text report.
+void inspect_analytic(const Curve& curve, const std::vector<Point>& points, unsigned digits,
+                      nlohmann::json& record, std::ostream& text);
 
 }  // namespace arcsieve::cli
