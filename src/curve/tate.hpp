@@ -15,15 +15,17 @@ enum class ReductionKind { good, split_multiplicative, nonsplit_multiplicative, 
 
 struct LocalReduction {
     Integer prime;
-    std::string kodaira;            // "I0", "I7", "I2*", "II", "III", "IV", "IV*", "III*", "II*", ...
-    int kodaira_n = 0;              // the n of I_n or I_n*, else 0
-    int discriminant_valuation = 0; // v_p of the minimal discriminant
+    std::string kodaira;  // "I0", "I7", "I2*", "II", "III", "IV", "IV*", "III*", "II*", ...
+    int kodaira_n = 0;    // the n of I_n or I_n*, else 0
+    int discriminant_valuation = 0;  // v_p of the minimal discriminant
     int conductor_exponent = 0;
     int tamagawa = 1;
     ReductionKind kind = ReductionKind::good;
-    ModelWithChange minimal_at_p;   // model minimal at p and the change from the input curve
+    ModelWithChange minimal_at_p;  // model minimal at p and the change from the input curve
 };
 
+// Any curve over Q (made integral and minimal at p first). Throws std::invalid_argument when
+// `prime` is not prime. conductor_exponent is f with v(Δ) = f + m - 1 (Ogg–Saito).
 LocalReduction tate_local(const Curve& curve, const Integer& prime);
 // Every prime of bad reduction (dividing the minimal discriminant), primes increasing.
 std::vector<LocalReduction> bad_reduction(const Curve& curve);
