@@ -1,10 +1,12 @@
 #!/usr/bin/env bash
 # Installs arcsieve's build and test dependencies on Debian 12 from Debian's own packages.
 # Idempotent: packages already present are left alone; safe to run any number of times.
+# Boost 1.81 (not the default 1.74): its multiprecision default precision is thread-local, so
+# threads computing at different precisions do not race (1.74 keeps one process-wide static).
 set -euo pipefail
 packages=(
   build-essential cmake pkg-config clang-format
-  libgmp-dev libmpfr-dev libmpfi-dev libboost-dev
+  libgmp-dev libmpfr-dev libmpfi-dev libboost1.81-dev
   libtbb-dev libgtest-dev libgmock-dev libbenchmark-dev
   libcli11-dev nlohmann-json3-dev libfmt-dev
   libflint-arb-dev libflint-dev

@@ -12,12 +12,12 @@
 namespace arcsieve {
 
 struct RealStructure {
-    int components = 1;             // 2 when Δ > 0, else 1
-    std::vector<Real> roots;        // real roots in x of the model, decreasing (e1 ≥ e2 ≥ e3)
-    Real real_period;               // least positive real period ω1 of the Néron differential
-    Real imaginary_period_re;       // ω2 = re + i·im, second basis vector of the lattice
-    Real imaginary_period_im;       //   (re = 0 when Δ > 0, re = ω1/2 when Δ < 0)
-    unsigned digits = 0;            // correct decimal digits of every field
+    int components = 1;        // 2 when Δ > 0, else 1
+    std::vector<Real> roots;   // real roots in x of the model, decreasing (e1 ≥ e2 ≥ e3)
+    Real real_period;          // least positive real period ω1 of the Néron differential
+    Real imaginary_period_re;  // ω2 = re + i·im, second basis vector of the lattice
+    Real imaginary_period_im;  //   (re = 0 when Δ > 0, re = ω1/2 when Δ < 0)
+    unsigned digits = 0;       // correct decimal digits of every field
 };
 
 // Periods and roots of `curve` (any model over Q, either sign of Δ) to `digits` correct digits.
@@ -33,10 +33,13 @@ struct EllipticLogEnclosure {
     Interval t;  // guaranteed to contain the true t (wrap-around at 0/1 returned unwrapped)
 };
 
-// t(P) to `digits` correct digits (the layer chooses its working precision).
+// t(P) to `digits` correct digits after the point (absolute accuracy; the layer chooses its
+// working precision). Cohen Algorithm 7.4.8 rewritten without cancellation: next to a 2-torsion
+// point x − e_i is recomputed from Y^2 = 4(x − e1)(x − e2)(x − e3), Y = 2y + a1 x + a3 exact.
 EllipticLog elliptic_log(const Curve& curve, const Point& p, unsigned digits);
 EllipticLog elliptic_log(const Curve& curve, const RealStructure& real, const Point& p);
-// Certified enclosure of t(P).
+// Certified enclosure of t(P): certified roots (sign changes of the cubic), interval AGM, and
+// the bounds arcsin(a/c)/a ≤ I ≤ arcsin(a/c)/b on the remaining Landen integral.
 EllipticLogEnclosure elliptic_log_enclosure(const Curve& curve, const Point& p, unsigned digits);
 
 struct RealPoint {
@@ -45,7 +48,9 @@ struct RealPoint {
 };
 
 // The inverse map: the real point with the given component and coordinate t (℘ and ℘' of
-// z = t·ω1, shifted by the half period for the egg), to the precision of `real`.
+// z = t·ω1, shifted by the half period for the egg), to the precision of `real`: the Landen
+// descent of elliptic_log run backwards (no q-series, so any lattice shape is equally fast).
+// InputError for component 1 on a curve with one real component.
 RealPoint point_from_log(const Curve& curve, const RealStructure& real, int component,
                          const Real& t);
 
