@@ -1,0 +1,77 @@
+// The Mordell–Weil basis of one curve: rank bounds, generators modulo torsion (LLL-reduced in
+// the height pairing), their canonical heights, the regulator, how far saturation is proved,
+// and notes on everything that could not be decided. The entry point for locate/solve/survey.
+#pragma once
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+#include "analytic/real.hpp"
+#include "curve/point.hpp"
+#include "curve/torsion.hpp"
+
+namespace arcsieve {
+
+struct BasisOptions {
+    // Direct search on the global minimal model: x = u/w^2 with |u|, w^2 <= search_height_bound.
+    Integer search_height_bound{250000};
+    // 2-isogeny descent: |u|, v <= quartic_bound on every soluble quartic not yet explained.
+    std::int64_t quartic_bound = 400;
+    // Saturation is proved at every prime ℓ <= saturation_prime_bound (or fails with a note).
+    int saturation_prime_bound = 50;
+    // Rank-0 certificate by L(E,1) != 0 and root numbers for the parity remark, for curves of
+    // conductor up to this bound (basis/analytic_rank_zero.hpp); 0 switches it off.
+    Integer analytic_conductor_bound{1000000};
+    unsigned digits = 30;  // correct decimal digits of heights and regulator
+    unsigned threads = 0;  // 0: TBB decides
+
+    // effort 0: quick (survey pre-pass), 1: the defaults (well under a second for E_N, N <= 100),
+    // 2, 3, ...: each step multiplies the quartic bound and the search bound by 3.
+    static BasisOptions with_effort(int effort);
+};
+
+struct RankBounds {
+    int lower = 0;
+    std::optional<int> upper;  // nullopt: not bounded by this program (see notes)
+    bool known() const { return upper && *upper == lower; }
+};
+
+// What the 2-isogeny descent showed (F_2-dimensions; see basis/two_isogeny_descent.hpp).
+struct DescentSummary {
+    int selmer_dimension = 0;            // Sel^φ(E): quartics b1 u^4 + A u^2 v^2 + (B/b1) v^4
+    int isogenous_selmer_dimension = 0;  // Sel^φ'(E') on the isogenous curve
+    int found_dimension = 0;             // images of points found on E (incl. 1 and B)
+    int isogenous_found_dimension = 0;
+};
+
+struct MordellWeilBasis {
+    RankBounds rank;
+    std::vector<Point> generators;        // on the input curve, independent, of infinite order
+    std::vector<Real> generator_heights;  // ĥ (LMFDB normalisation, analytic/height.hpp)
+    Real regulator;                       // det of the height matrix; 1 when there are none
+    TorsionGroup torsion;                 // on the input curve
+    // Every prime ℓ <= saturated_up_to is proved not to divide [E(Q) : <generators, torsion>]
+    // (within the span of the generators; if rank.lower < true rank nothing is claimed beyond).
+    int saturated_up_to = 1;
+    // Upper bound for the index from a lower bound on ĥ over non-torsion points (Silverman's
+    // height-difference bound with the search region, see notes); nullopt if not obtained.
+    std::optional<double> index_bound;
+    bool saturation_complete = false;  // index_bound < next prime after saturated_up_to
+    std::optional<DescentSummary> descent;
+    std::optional<int> root_number;  // from the functional equation, when computed
+    std::vector<std::string> notes;
+
+    // Rank known, and the generators proved to generate E(Q) modulo torsion.
+    bool settled() const { return rank.known() && saturation_complete; }
+};
+
+// Generators of E(Q) modulo torsion for `curve` (any Weierstrass model over Q). Points in
+// `given` are checked first — on the curve, of infinite order, independent — and throw
+// InputError otherwise; they are then used together with what the search finds, and saturated
+// like any other. Never throws for a mathematical "don't know": that goes into the notes.
+MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& options,
+                                    const std::vector<Point>& given = {});
+
+}  // namespace arcsieve
