@@ -38,6 +38,12 @@ void add_problem_options(CLI::App& command, ProblemOptions& options);
 Problem resolve_problem(const ProblemOptions& options);
 
 void register_inspect(CLI::App& app, Context& context);
+void register_verify(CLI::App&, Context&);
+void register_survey(CLI::App& app, Context& context);
+void register_solve(CLI::App& app, Context& context);
+void register_plot(CLI::App& app, Context& context);
+void register_basis(CLI::App& app, Context& context);
+void register_locate(CLI::App& app, Context& context);
 
 // Analytic part of `inspect` (periods, components, and per point its component, elliptic log
 // and canonical height): appends to the JSON record and to the text report.

@@ -11,6 +11,12 @@ int main(int argc, char** argv) {
     app.require_subcommand(1);
     arcsieve::cli::Context context;
     arcsieve::cli::register_inspect(app, context);
+    arcsieve::cli::register_verify(app, context);
+    arcsieve::cli::register_survey(app, context);
+    arcsieve::cli::register_solve(app, context);
+    arcsieve::cli::register_plot(app, context);
+    arcsieve::cli::register_basis(app, context);
+    arcsieve::cli::register_locate(app, context);
     try {
         app.parse(argc, argv);
     } catch (const CLI::ParseError& error) {

@@ -4,11 +4,10 @@
 #pragma once
 
 #include <chrono>
+#include <nlohmann/json.hpp>
 #include <optional>
 #include <string>
 #include <vector>
-
-#include <nlohmann/json.hpp>
 
 #include "curve/point.hpp"
 
@@ -22,13 +21,20 @@ struct ProblemSpec {
 };
 
 struct JobOptions {
-    unsigned digits = 30;                   // digits of printed real numbers
+    unsigned digits = 30;                           // digits of printed real numbers
     std::size_t max_solution_digits = 100'000'000;  // refuse to materialise above this
-    std::string output_dir;                 // where solution files go; empty: keep in record only
+    // Where solutions longer than 1000 digits go (as "solution_file", a name relative to this
+    // directory: a, b, c one per line); empty: they stay in the record.
+    std::string output_dir;
     bool materialise = true;
-    std::string ordering;                   // e.g. "a>=b>=c"; empty: none
+    std::string ordering;                                           // e.g. "a>=b>=c"; empty: none
     std::optional<std::chrono::steady_clock::time_point> deadline;  // cooperative time limit
 };
+
+// The record's JSON forms: a curve as its a-invariants [a1,a2,a3,a4,a6] (numbers when they fit in
+// 64 bits, else decimal strings), a point as ["x","y"] with rational strings (null for O).
+nlohmann::json curve_record(const Curve& curve);
+nlohmann::json point_record(const Point& p);
 
 // Never throws for a mathematical failure or time-out: the record then has "error" / "notes".
 // Throws InputError for a malformed problem.

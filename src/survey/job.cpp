@@ -1,0 +1,333 @@
+#include "survey/job.hpp"
+
+#include <fmt/format.h>
+
+#include <chrono>
+#include <cmath>
+#include <filesystem>
+#include <functional>
+
+#include "analytic/height.hpp"
+#include "basis/mordell_weil.hpp"
+#include "basis/saturation.hpp"
+#include "curve/tate.hpp"
+#include "exact/fingerprint.hpp"
+#include "exact/materialise.hpp"
+#include "family/ratio_sum.hpp"
+#include "family/target.hpp"
+#include "locate/first_hit.hpp"
+#include "region/region.hpp"
+#include "survey/report.hpp"
+
+namespace arcsieve {
+namespace {
+
+using Clock = std::chrono::steady_clock;
+
+// a-invariants as JSON numbers when they fit in 64 bits (DESIGN.md §6), else as strings.
+nlohmann::json invariant_json(const Rational& a) {
+    if (a.get_den() == 1 && a.get_num().fits_slong_p()) return a.get_num().get_si();
+    return to_string(a);
+}
+
+std::string real_text(const Real& value, unsigned digits) {
+    return value.str(static_cast<std::streamsize>(digits));
+}
+
+struct Stages {
+    nlohmann::json& record;
+    const JobOptions& options;
+
+    bool out_of_time() const { return options.deadline && Clock::now() > *options.deadline; }
+
+    // Runs one stage; a throw becomes the record's error (later stages depend on this one, so
+    // the job stops there), and a passed deadline stops the job between stages.
+    bool run(const std::string& name, const std::function<void()>& body) {
+        if (out_of_time()) {
+            record["status"] = "timeout";
+            record["error"] = "time limit reached before the " + name + " stage";
+            return false;
+        }
+        try {
+            body();
+        } catch (const InputError&) {
+            throw;
+        } catch (const std::exception& error) {
+            record["error"] = name + " stage failed: " + error.what();
+            return false;
+        }
+        record["stages_completed"].push_back(name);
+        return true;
+    }
+};
+
+}  // namespace
+
+nlohmann::json curve_record(const Curve& curve) {
+    return nlohmann::json::array({invariant_json(curve.a1), invariant_json(curve.a2),
+                                  invariant_json(curve.a3), invariant_json(curve.a4),
+                                  invariant_json(curve.a6)});
+}
+
+nlohmann::json point_record(const Point& p) {
+    if (p.at_infinity) return nullptr;
+    return nlohmann::json::array({to_string(p.x), to_string(p.y)});
+}
+
+nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options) {
+    const auto started = Clock::now();
+    nlohmann::json record;
+    record["notes"] = nlohmann::json::array();
+    record["stages_completed"] = nlohmann::json::array();
+    record["proven"] = nlohmann::json::array();
+    record["conditional"] = nlohmann::json::array();
+    Curve curve;
+    const bool is_family = !problem.family.empty();
+    if (is_family) {
+        if (problem.family != "ratio-sum") {
+            throw InputError("unknown family '" + problem.family + "' (known: ratio-sum)");
+        }
+        if (!problem.N) throw InputError("the ratio-sum problem needs N");
+        family::check_ratio_sum_parameter(*problem.N);
+        record["family"] = problem.family;
+        record["N"] = problem.N->fits_slong_p() ? nlohmann::json(problem.N->get_si())
+                                                : nlohmann::json(to_string(*problem.N));
+        curve = family::ratio_sum_curve(*problem.N);
+    } else if (problem.curve) {
+        curve = *problem.curve;
+    } else {
+        throw InputError("a problem needs a family with N, or a curve");
+    }
+    for (const auto& p : problem.generators) {
+        if (!on_curve(curve, p)) {
+            throw InputError("the given point " + to_string(p) + " is not on the curve");
+        }
+    }
+    std::optional<family::Target> target;
+    if (is_family) target = family::ratio_sum_target(*problem.N, options.ordering);  // may throw
+    record["curve"] = curve_record(curve);
+    record["discriminant"] = to_string(discriminant(curve));
+    if (!options.ordering.empty()) record["ordering"] = options.ordering;
+
+    Stages stages{record, options};
+    auto finish = [&]() {
+        record["settled"] = survey::settled_completely(record);
+        record["seconds"] = std::chrono::duration<double>(Clock::now() - started).count();
+        return record;
+    };
+
+    stages.run("conductor", [&] { record["conductor"] = to_string(conductor(curve)); });
+
+    MordellWeilBasis basis;
+    const bool have_basis = stages.run("basis", [&] {
+        BasisOptions basis_options = BasisOptions::with_effort(1);
+        basis_options.digits = options.digits;
+        basis = mordell_weil_basis(curve, basis_options, problem.generators);
+        auto& torsion = record["torsion"] = nlohmann::json::array();
+        for (const auto& t : basis.torsion.points) {
+            if (!t.at_infinity) torsion.push_back(point_record(t));
+        }
+        record["torsion_structure"] = basis.torsion.structure;
+        record["rank"] = {{"lower", basis.rank.lower},
+                          {"upper", basis.rank.upper ? nlohmann::json(*basis.rank.upper)
+                                                     : nlohmann::json(nullptr)}};
+        auto& generators = record["generators"] = nlohmann::json::array();
+        for (const auto& g : basis.generators) generators.push_back(point_record(g));
+        auto& heights = record["generator_heights"] = nlohmann::json::array();
+        for (const auto& h : basis.generator_heights)
+            heights.push_back(real_text(h, options.digits));
+        record["regulator"] = real_text(basis.regulator, options.digits);
+        record["saturated_up_to"] = basis.saturated_up_to;
+        record["saturation_complete"] = basis.saturation_complete;
+        for (const auto& note : basis.notes) record["notes"].push_back("basis: " + note);
+        if (basis.rank.known()) {
+            record["proven"].push_back(fmt::format("rank = {}", basis.rank.lower));
+        } else {
+            record["conditional"].push_back(
+                basis.rank.upper ? fmt::format("rank between {} and {}: not decided",
+                                               basis.rank.lower, *basis.rank.upper)
+                                 : fmt::format("rank >= {}; no upper bound", basis.rank.lower));
+        }
+        if (basis.saturation_complete) {
+            record["proven"].push_back("the generators and torsion generate E(Q)");
+        } else {
+            record["conditional"].push_back(fmt::format(
+                "saturation proved only at primes <= {}: the generators may have a finite index",
+                basis.saturated_up_to));
+        }
+    });
+    if (!have_basis) return finish();
+    if (!target) {
+        record["notes"].push_back("a bare curve has no target region: curve data and basis only");
+        return finish();
+    }
+
+    std::optional<region::Region> arcs;
+    const bool have_region = stages.run("region", [&] {
+        arcs = region::target_region(*target, options.digits);
+        auto& out = record["region"];
+        out["arcs"] = region::describe_arcs(*arcs);
+        out["components"] = arcs->model.components;
+    });
+    if (!have_region) return finish();
+
+    record["hit"] = nullptr;
+    if (basis.generators.empty()) {
+        record["outcome"] = "no generators";
+        record["notes"].push_back(
+            basis.rank.known() ? "rank 0: only torsion points, none of which is a solution"
+                               : "no point of infinite order found; the rank is not known to be 0");
+        if (basis.rank.known() && basis.rank.lower == 0) {
+            record["proven"].push_back("E(Q) is finite: no positive solution");
+            record["no_solution_proven"] = true;
+        }
+        return finish();
+    }
+
+    locate::FirstHitResult located;
+    const bool have_hit = stages.run("locate", [&] {
+        locate::FirstHitOptions locate_options;
+        locate_options.digits = std::max(20u, options.digits);
+        locate_options.saturated_at_2 = basis.saturated_up_to >= 2;
+        // The height pairing: needed for rank >= 2, and gives ĥ of the hit at rank one.
+        const auto heights = height_matrix(curve, basis.generators, options.digits);
+        locate::GramMatrix gram(heights.size());
+        for (std::size_t i = 0; i < heights.size(); ++i) {
+            for (const auto& h : heights[i]) gram[i].push_back(static_cast<double>(h));
+        }
+        locate_options.height_matrix = gram;
+        located =
+            locate::first_hit(*target, basis.generators, basis.torsion.points, locate_options);
+        record["outcome"] = locate::to_string(located.outcome);
+        record["locate_method"] = located.method;
+        record["candidates_checked"] = located.candidates;
+        for (const auto& note : located.notes) record["notes"].push_back("locate: " + note);
+    });
+    if (!have_hit) return finish();
+    const bool basis_complete = basis.rank.known() && basis.saturation_complete;
+    if (located.outcome != locate::SearchOutcome::found || located.hits.empty()) {
+        const bool structural = located.outcome == locate::SearchOutcome::unreachable ||
+                                located.outcome == locate::SearchOutcome::no_region;
+        if (structural && basis_complete) {
+            record["proven"].push_back("no positive solution: " +
+                                       locate::to_string(located.outcome));
+            record["no_solution_proven"] = true;
+        } else {
+            record["conditional"].push_back("no hit found: " + locate::to_string(located.outcome));
+        }
+        return finish();
+    }
+    const locate::Hit& hit = located.hits.front();
+    {
+        auto& out = record["hit"];
+        out["coeffs"] = nlohmann::json::array();
+        for (const auto& n : hit.coefficients) {
+            out["coeffs"].push_back(n.fits_slong_p() ? nlohmann::json(n.get_si())
+                                                     : nlohmann::json(to_string(n)));
+        }
+        out["translate"] = point_record(hit.translate);
+        out["component"] = hit.component;
+        out["t"] = hit.t_approx;
+        out["companions"] = located.hits.size() - 1;
+        record["hit_certified"] = true;  // locate decides membership with certified enclosures
+        if (hit.canonical_height) record["canonical_height"] = *hit.canonical_height;
+        record["proven"].push_back("the combination lands on the target arc (certified enclosure)");
+        if (basis_complete) {
+            record["proven"].push_back("it is the solution of least canonical height");
+        } else {
+            record["conditional"].push_back(
+                "least height only within the subgroup the generators span (basis not proved "
+                "complete)");
+        }
+    }
+
+    // The exact layer works on index·generator + translate: rank one directly; for a higher
+    // rank the combination is formed exactly first (hits there have small coefficients).
+    exact::Multiple multiple;
+    bool have_multiple = stages.run("combination", [&] {
+        std::size_t nonzero = 0;
+        for (const auto& n : hit.coefficients) nonzero += n != 0 ? 1 : 0;
+        if (hit.coefficients.size() == 1) {
+            multiple.generator =
+                hit.coefficients[0] < 0 ? negate(curve, basis.generators[0]) : basis.generators[0];
+            multiple.index = abs(hit.coefficients[0]);
+        } else {
+            multiple.generator = basis::combination(curve, basis.generators, hit.coefficients);
+            multiple.index = 1;
+        }
+        multiple.translate = hit.translate;
+        if (nonzero == 0) throw std::runtime_error("a torsion hit has no fingerprint");
+    });
+    if (!have_multiple) return finish();
+
+    stages.run("fingerprint", [&] {
+        exact::FingerprintOptions fingerprint_options;
+        fingerprint_options.lead_digits = options.digits;
+        const auto fingerprint =
+            exact::ratio_sum_fingerprint(*problem.N, multiple, fingerprint_options);
+        const nlohmann::json json = exact::to_json(fingerprint);
+        record["digits"] = json.value("digits", nlohmann::json());
+        record["lead"] = json.value("lead", nlohmann::json());
+        record["gcd_removed"] = json.value("gcd", nlohmann::json());
+        record["digits_certified"] = fingerprint.certain;
+        if (!record.contains("canonical_height")) {
+            record["canonical_height"] = json.value("canonical_height", nlohmann::json());
+        }
+        record["log10_size"] = fingerprint.log10_size;
+        for (const auto& note : fingerprint.notes)
+            record["notes"].push_back("fingerprint: " + note);
+        if (fingerprint.certain) {
+            record["proven"].push_back("digit counts and leading digits (certified enclosures)");
+        } else {
+            record["conditional"].push_back("some digits of the fingerprint are not certified");
+        }
+    });
+
+    if (!options.materialise) {
+        record["notes"].push_back("materialisation switched off");
+        return finish();
+    }
+    const auto estimate = exact::estimate_ratio_sum_size(*problem.N, multiple);
+    if (estimate.digits > static_cast<double>(options.max_solution_digits)) {
+        record["notes"].push_back(fmt::format(
+            "the solution has about {:.0f} digits, above the size limit of {}: not written out",
+            estimate.digits, options.max_solution_digits));
+        return finish();
+    }
+    stages.run("materialise", [&] {
+        exact::MaterialiseOptions materialise_options;
+        materialise_options.max_digits = static_cast<double>(options.max_solution_digits);
+        const auto solution =
+            exact::materialise_ratio_sum(*problem.N, multiple, materialise_options);
+        // Checked here once more with the family layer's own exact evaluation of the equation.
+        const bool holds =
+            solution.verified && family::satisfies_ratio_sum(*problem.N, solution.triple);
+        record["verified"] = holds;
+        record["positive"] = solution.positive;
+        record["digits"] = {solution.digits[0], solution.digits[1], solution.digits[2]};
+        const std::size_t largest =
+            std::max({solution.digits[0], solution.digits[1], solution.digits[2]});
+        // Short solutions go into the record; long ones (and any, when a directory is given)
+        // to a file of three lines a, b, c.
+        constexpr std::size_t inline_digits = 1000;
+        if (largest <= inline_digits) {
+            record["solution"] = {to_string(solution.triple.a), to_string(solution.triple.b),
+                                  to_string(solution.triple.c)};
+        }
+        if (!options.output_dir.empty() && largest > inline_digits) {
+            std::filesystem::create_directories(options.output_dir);
+            const std::string name = "ratio-sum-N" + to_string(*problem.N) + ".solution.txt";
+            exact::write_solution(solution.triple, options.output_dir + "/" + name, false);
+            record["solution_file"] = name;  // relative to the output directory
+        } else if (largest > inline_digits) {
+            record["solution"] = {to_string(solution.triple.a), to_string(solution.triple.b),
+                                  to_string(solution.triple.c)};
+        }
+        if (holds) {
+            record["proven"].push_back("the solution satisfies the equation exactly");
+        }
+    });
+    return finish();
+}
+
+}  // namespace arcsieve
