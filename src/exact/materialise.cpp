@@ -442,6 +442,14 @@ std::string human_count(double digits) {
 
 }  // namespace
 
+std::string size_limit_message(const SizeEstimate& estimate, double max_digits) {
+    return "the solution would have about " + human_count(estimate.digits) +
+           " digits per number, above the limit of " + human_count(max_digits) +
+           "; writing it needs about " + human_bytes(estimate.memory_bytes) + " of memory and " +
+           human_bytes(estimate.disk_bytes) + " of disk (raise the limit with " +
+           max_digits_option + ")";
+}
+
 bool satisfies_ratio_sum_fast(const Integer& N, const family::Triple& t) {
     if (t.a + t.b == 0 || t.b + t.c == 0 || t.c + t.a == 0) return false;
     const Integer s = t.a + t.b + t.c;
@@ -467,12 +475,7 @@ MaterialisedSolution materialise_ratio_sum(const Integer& N, const Multiple& q,
     MaterialisedSolution out;
     out.estimate = estimate_ratio_sum_size(N, q);
     if (out.estimate.digits > options.max_digits) {
-        throw SizeLimitExceeded(
-            "the solution would have about " + human_count(out.estimate.digits) +
-            " digits per number, above the limit of " + human_count(options.max_digits) +
-            "; writing it needs about " + human_bytes(out.estimate.memory_bytes) +
-            " of memory and " + human_bytes(out.estimate.disk_bytes) +
-            " of disk (raise the limit with " + max_digits_option + ")");
+        throw SizeLimitExceeded(size_limit_message(out.estimate, options.max_digits));
     }
     const JacobianCurve e = jacobian_curve(curve);
     const std::vector<Integer> primes = ratio_sum_correction_primes(N);

@@ -43,7 +43,12 @@ struct SizeLimitExceeded : InputError {
     using InputError::InputError;
 };
 
-inline constexpr const char* max_digits_option = "--max-solution-digits";
+// The command-line option (of solve, survey and arcsieve-mpi) that raises the size limit.
+inline constexpr const char* max_digits_option = "--size-limit";
+
+// "the solution would have about … digits …, needs … of memory and … of disk (raise the limit
+// with --size-limit)": the refusal message, shared by every caller that checks the estimate.
+std::string size_limit_message(const SizeEstimate& estimate, double max_digits);
 
 struct MaterialiseOptions {
     double max_digits = 1e8;

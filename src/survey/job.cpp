@@ -206,11 +206,20 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
     if (!have_hit) return finish();
     const bool basis_complete = basis.rank.known() && basis.saturation_complete;
     if (located.outcome != locate::SearchOutcome::found || located.hits.empty()) {
-        const bool structural = located.outcome == locate::SearchOutcome::unreachable ||
-                                located.outcome == locate::SearchOutcome::no_region;
-        if (structural && basis_complete) {
-            record["proven"].push_back("no positive solution: " +
-                                       locate::to_string(located.outcome));
+        // An empty region needs no basis at all. "Unreachable" (every generator and torsion
+        // point on the identity component, the region on the egg) is a proof once the rank is
+        // known and the points are saturated at 2: then [E(Q) : <points>] is odd, and for odd m
+        // the component of mQ equals that of Q, so every rational point is on the identity
+        // component. Saturation at larger primes does not matter for this argument.
+        const bool proof = located.outcome == locate::SearchOutcome::no_region ||
+                           (located.outcome == locate::SearchOutcome::unreachable &&
+                            basis.rank.known() && basis.saturated_up_to >= 2);
+        if (proof) {
+            record["proven"].push_back(
+                located.outcome == locate::SearchOutcome::no_region
+                    ? "no positive solution: no real point satisfies the sign conditions"
+                    : "no positive solution: every rational point lies on the identity component "
+                      "(rank known, points saturated at 2), the target arc on the egg");
             record["no_solution_proven"] = true;
         } else {
             record["conditional"].push_back("no hit found: " + locate::to_string(located.outcome));
@@ -289,9 +298,9 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
     }
     const auto estimate = exact::estimate_ratio_sum_size(*problem.N, multiple);
     if (estimate.digits > static_cast<double>(options.max_solution_digits)) {
-        record["notes"].push_back(fmt::format(
-            "the solution has about {:.0f} digits, above the size limit of {}: not written out",
-            estimate.digits, options.max_solution_digits));
+        record["notes"].push_back(
+            "not written out: " +
+            exact::size_limit_message(estimate, static_cast<double>(options.max_solution_digits)));
         return finish();
     }
     stages.run("materialise", [&] {

@@ -32,6 +32,8 @@ void line(std::string& out, const std::string& label, const std::string& value) 
 }  // namespace
 
 bool settled_completely(const nlohmann::json& r) {
+    // A proof that no positive solution exists settles the problem whatever else is open.
+    if (r.value("no_solution_proven", false)) return true;
     const auto rank = r.value("rank", nlohmann::json());
     if (!rank.is_object() ||
         rank.value("lower", nlohmann::json()) != rank.value("upper", nlohmann::json()) ||
@@ -39,7 +41,6 @@ bool settled_completely(const nlohmann::json& r) {
         return false;
     }
     if (!r.value("saturation_complete", false)) return false;
-    if (r.value("no_solution_proven", false)) return true;
     if (!r.value("hit_certified", false)) return false;
     return r.value("verified", false) || r.value("digits_certified", false);
 }
