@@ -196,6 +196,11 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
             for (const auto& h : heights[i]) gram[i].push_back(static_cast<double>(h));
         }
         locate_options.height_matrix = gram;
+        // Rank >= 2: search up to 10^4 × the largest generator height (about index 100 along
+        // each generator); the lattice has ~π·bound/√regulator points there, each cheap to test.
+        double largest = 0;
+        for (std::size_t i = 0; i < gram.size(); ++i) largest = std::max(largest, gram[i][i]);
+        if (gram.size() >= 2) locate_options.height_bound = 1e4 * largest;
         located =
             locate::first_hit(*target, basis.generators, basis.torsion.points, locate_options);
         record["outcome"] = locate::to_string(located.outcome);
