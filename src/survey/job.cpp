@@ -311,8 +311,25 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
     stages.run("materialise", [&] {
         exact::MaterialiseOptions materialise_options;
         materialise_options.max_digits = static_cast<double>(options.max_solution_digits);
-        const auto solution =
-            exact::materialise_ratio_sum(*problem.N, multiple, materialise_options);
+        exact::MaterialisedSolution solution;
+        if (hit.coefficients.size() == 1) {
+            solution = exact::materialise_ratio_sum(*problem.N, multiple, materialise_options);
+        } else {
+            // Rank >= 2: the combination stage already computed the point exactly (its
+            // coordinates are too large for the ladder's prime-by-prime gcd removal, which
+            // factors the base point); map it with the family layer's full-gcd normalisation.
+            const Point q = add(curve, multiple.generator, multiple.translate);
+            const auto image = family::point_to_triple(*problem.N, q);
+            if (const auto* degenerate = std::get_if<family::Degenerate>(&image)) {
+                throw std::runtime_error("the hit is degenerate: " + degenerate->reason);
+            }
+            solution.triple = std::get<family::Triple>(image);
+            solution.digits = {decimal_digits(solution.triple.a), decimal_digits(solution.triple.b),
+                               decimal_digits(solution.triple.c)};
+            solution.positive =
+                solution.triple.a > 0 && solution.triple.b > 0 && solution.triple.c > 0;
+            solution.verified = family::satisfies_ratio_sum(*problem.N, solution.triple);
+        }
         // Checked here once more with the family layer's own exact evaluation of the equation.
         const bool holds =
             solution.verified && family::satisfies_ratio_sum(*problem.N, solution.triple);
