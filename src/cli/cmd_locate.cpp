@@ -10,6 +10,7 @@
 #include "curve/torsion.hpp"
 #include "family/target.hpp"
 #include "locate/first_hit.hpp"
+#include "survey/job.hpp"
 
 namespace arcsieve::cli {
 namespace {
@@ -25,27 +26,6 @@ struct LocateOptions {
     bool json = false;
 };
 
-nlohmann::json point_json(const Point& p) {
-    if (p.at_infinity) return "(0:1:0)";
-    return nlohmann::json::array({to_string(p.x), to_string(p.y)});
-}
-
-nlohmann::json curve_json(const Curve& e) {
-    nlohmann::json a = nlohmann::json::array();
-    bool small = true;
-    for (const Rational* c : {&e.a1, &e.a2, &e.a3, &e.a4, &e.a6}) {
-        small &= c->get_den() == 1 && c->get_num().fits_slong_p();
-    }
-    for (const Rational* c : {&e.a1, &e.a2, &e.a3, &e.a4, &e.a6}) {
-        if (small) {
-            a.push_back(c->get_num().get_si());
-        } else {
-            a.push_back(to_string(*c));
-        }
-    }
-    return a;
-}
-
 nlohmann::json hit_json(const locate::Hit& hit) {
     nlohmann::json h;
     h["coeffs"] = nlohmann::json::array();
@@ -56,7 +36,7 @@ nlohmann::json hit_json(const locate::Hit& hit) {
             h["coeffs"].push_back(to_string(c));
         }
     }
-    h["translate"] = point_json(hit.translate);
+    h["translate"] = point_record(hit.translate);
     h["component"] = hit.component;
     h["t"] = hit.t_approx;
     h["decided_exactly"] = hit.decided_exactly;
@@ -120,11 +100,11 @@ void run_locate(const LocateOptions& options, Context& context) {
     nlohmann::json record;
     record["family"] = target.family;
     record["N"] = to_string(*problem.N);
-    record["curve"] = curve_json(curve);
+    record["curve"] = curve_record(curve);
     record["torsion"] = nlohmann::json::array();
-    for (const Point& t : torsion.points) record["torsion"].push_back(point_json(t));
+    for (const Point& t : torsion.points) record["torsion"].push_back(point_record(t));
     record["generators"] = nlohmann::json::array();
-    for (const Point& p : generators) record["generators"].push_back(point_json(p));
+    for (const Point& p : generators) record["generators"].push_back(point_record(p));
     record["generator_source"] = source;
     if (!options.ordering.empty()) record["ordering"] = options.ordering;
     record["hit"] = nullptr;
