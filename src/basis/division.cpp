@@ -3,6 +3,8 @@
 #include <algorithm>
 #include <stdexcept>
 
+#include "arith/modular.hpp"
+
 namespace arcsieve::basis {
 
 namespace {
@@ -47,18 +49,6 @@ Integer integral(const Rational& q) {
 
 std::uint64_t mod_of(const Integer& n, std::uint64_t p) {
     return mpz_fdiv_ui(n.get_mpz_t(), p);
-}
-
-std::uint64_t mul_mod(std::uint64_t a, std::uint64_t b, std::uint64_t p) {
-    return static_cast<std::uint64_t>((static_cast<unsigned __int128>(a) * b) % p);
-}
-
-std::uint64_t pow_mod(std::uint64_t a, std::uint64_t e, std::uint64_t p) {
-    std::uint64_t r = 1;
-    for (; e; e >>= 1, a = mul_mod(a, a, p)) {
-        if (e & 1) r = mul_mod(r, a, p);
-    }
-    return r;
 }
 
 using SmallPoly = std::vector<std::uint64_t>;

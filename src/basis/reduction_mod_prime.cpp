@@ -2,30 +2,16 @@
 
 #include <vector>
 
+#include "arith/modular.hpp"
+
 namespace arcsieve::basis {
 
 namespace {
 
-std::uint64_t mul_mod(std::uint64_t a, std::uint64_t b, std::uint64_t q) {
-    return static_cast<std::uint64_t>((static_cast<unsigned __int128>(a) * b) % q);
-}
-
-std::uint64_t pow_mod(std::uint64_t a, std::uint64_t e, std::uint64_t q) {
-    std::uint64_t r = 1;
-    for (; e; e >>= 1, a = mul_mod(a, a, q)) {
-        if (e & 1) r = mul_mod(r, a, q);
-    }
-    return r;
-}
-
-std::uint64_t inverse_mod(std::uint64_t a, std::uint64_t q) {
-    return pow_mod(a, q - 2, q);
-}
-
 std::uint64_t residue(const Rational& value, std::uint64_t q) {
     const std::uint64_t n = mpz_fdiv_ui(value.get_num_mpz_t(), q);
     const std::uint64_t d = mpz_fdiv_ui(value.get_den_mpz_t(), q);
-    return mul_mod(n, inverse_mod(d, q), q);
+    return mul_mod(n, inverse_mod_prime(d, q), q);
 }
 
 }  // namespace
@@ -59,9 +45,9 @@ PointModPrime add(const CurveModPrime& c, const PointModPrime& p, const PointMod
         // λ = (3x^2 + 2 a2 x + a4) / (2y)
         const std::uint64_t numerator =
             (mul_mod(3, mul_mod(p.x, p.x, q), q) + mul_mod(2 * c.a2 % q, p.x, q) + c.a4) % q;
-        lambda = mul_mod(numerator, inverse_mod(2 * p.y % q, q), q);
+        lambda = mul_mod(numerator, inverse_mod_prime(2 * p.y % q, q), q);
     } else {
-        lambda = mul_mod((r.y + q - p.y) % q, inverse_mod((r.x + q - p.x) % q, q), q);
+        lambda = mul_mod((r.y + q - p.y) % q, inverse_mod_prime((r.x + q - p.x) % q, q), q);
     }
     const std::uint64_t x3 = (mul_mod(lambda, lambda, q) + 3 * q - c.a2 - p.x - r.x) % q;
     const std::uint64_t y3 = (mul_mod(lambda, (p.x + q - x3) % q, q) + q - p.y) % q;
