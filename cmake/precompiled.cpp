@@ -1,0 +1,1 @@
+// Empty: the target that owns the precompiled header (cmake/precompiled.hpp).
