@@ -352,9 +352,10 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
                 result.saturated_up_to));
         }
     } else if (r == 0) {
-        // Nothing to saturate; complete only when the rank is known to be 0.
+        // The empty set of generators spans only the torsion, which is saturated by definition;
+        // whether that is all of E(Q) is the rank question (MordellWeilBasis::generates).
         result.saturated_up_to = options.saturation_prime_bound;
-        result.saturation_complete = result.rank.known();
+        result.saturation_complete = true;
     }
     return result;
 }

@@ -55,16 +55,28 @@ struct MordellWeilBasis {
     // Every prime ℓ <= saturated_up_to is proved not to divide [E(Q) : <generators, torsion>]
     // (within the span of the generators; if rank.lower < true rank nothing is claimed beyond).
     int saturated_up_to = 1;
-    // Upper bound for the index from a lower bound on ĥ over non-torsion points (Silverman's
+    // Upper bound for the index of <generators, torsion> in its saturation (the rational points
+    // of its Q-span) from a lower bound on ĥ over non-torsion points (Silverman's
     // height-difference bound with the search region, see notes); nullopt if not obtained.
     std::optional<double> index_bound;
-    bool saturation_complete = false;  // index_bound < next prime after saturated_up_to
+    // index_bound < next prime after saturated_up_to: the subgroup is saturated in E(Q). This
+    // holds whatever the rank; it says nothing about points outside the span of the generators.
+    bool saturation_complete = false;
     std::optional<DescentSummary> descent;
     std::optional<int> root_number;  // from the functional equation, when computed
     std::vector<std::string> notes;
 
-    // Rank known, and the generators proved to generate E(Q) modulo torsion.
-    bool settled() const { return rank.known() && saturation_complete; }
+    // As many independent generators as the rank, and the rank proven: only then do the
+    // generators span E(Q) ⊗ Q, so that saturation means they generate E(Q) with the torsion.
+    bool full_rank() const {
+        return rank.known() && generators.size() == static_cast<std::size_t>(rank.lower);
+    }
+    // Proven: the generators and the torsion generate E(Q).
+    bool generates() const { return full_rank() && saturation_complete; }
+    // The points generate E(Q)/2E(Q) (full rank and saturated at 2): the component argument
+    // for "no positive solution" rests on this (docs/design-notes.md).
+    bool generates_modulo_2() const { return full_rank() && saturated_up_to >= 2; }
+    bool settled() const { return generates(); }
 };
 
 // Generators of E(Q) modulo torsion for `curve` (any Weierstrass model over Q). Points in

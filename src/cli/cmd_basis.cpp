@@ -97,6 +97,7 @@ void register_basis(CLI::App& app, Context& context) {
         record["saturation_complete"] = result.saturation_complete;
         record["index_bound"] =
             result.index_bound ? nlohmann::json(*result.index_bound) : nlohmann::json(nullptr);
+        record["basis_complete"] = result.generates();
         record["settled"] = result.settled();
         nlohmann::json torsion_points = nlohmann::json::array();
         for (const Point& p : result.torsion.points) {
@@ -133,8 +134,11 @@ void register_basis(CLI::App& app, Context& context) {
             }
             std::cout << "regulator       " << decimal(result.regulator, digits) << "\n";
             std::cout << "saturation      every prime up to " << result.saturated_up_to
-                      << (result.saturation_complete ? " (enough: basis complete)"
-                                                     : " (completeness not proved)")
+                      << (result.generates() ? " (enough: the generators and torsion generate E(Q))"
+                          : result.saturation_complete
+                              ? " (the span is saturated; E(Q) only if the rank equals the "
+                                "number of generators, not proven)"
+                              : " (completeness not proved)")
                       << "\n";
             for (const auto& note : result.notes) std::cout << "note            " << note << "\n";
         }

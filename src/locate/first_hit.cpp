@@ -1,5 +1,6 @@
 #include "locate/first_hit.hpp"
 
+#include <fmt/format.h>
 #include <tbb/parallel_for.h>
 
 #include <algorithm>
@@ -175,16 +176,16 @@ std::optional<FirstHitResult> component_argument(const LogData& data,
         "combination does, while the region lies on component " +
         component_list(needed));
     result.notes.push_back(
-        options.saturated_at_2
+        options.points_generate_modulo_2
             ? "the points generate E(Q)/2E(Q), so no solution exists at all (proof)"
             : "this proves that no solution exists only if the points generate E(Q) modulo "
-              "2E(Q) (saturation at 2 has not been established)");
+              "2E(Q) (not established: it needs the rank proven, as many generators as the "
+              "rank, and saturation at 2)");
     return result;
 }
 
 void check_inputs(const family::Target& target, const std::vector<Point>& generators,
                   std::vector<Point>& torsion, const FirstHitOptions& options) {
-    if (generators.empty()) throw InputError("first_hit needs at least one generator");
     for (const Point& p : generators) {
         if (!on_curve(target.curve, p)) {
             throw InputError("the generator " + to_string(p) + " is not on " +
@@ -239,6 +240,7 @@ std::vector<Hit> torsion_hits(const LogData& data, const family::Target& target,
         v.component = data.torsion[j].component;
         v.t = data.torsion[j].t;
         hits.push_back(make_hit(std::vector<Integer>(rank, Integer(0)), j, torsion, v, options));
+        hits.back().canonical_height = 0.0;  // exactly: ĥ vanishes on torsion points
     }
     return hits;
 }
@@ -411,6 +413,30 @@ FirstHitResult higher_rank(const family::Target& target, const std::vector<Point
     return result;
 }
 
+// No generators: the subgroup is the torsion list, finite, and each point is decided exactly
+// (satisfies_exactly evaluates the target's forms in exact rationals); nothing is skipped.
+FirstHitResult torsion_only(const family::Target& target, const std::vector<Point>& torsion,
+                            const FirstHitOptions& options) {
+    FirstHitResult result;
+    result.method = "torsion";
+    const LogData data = log_data(target, {}, torsion, options.digits + 10);
+    result.digits = data.region.digits;
+    result.candidates = torsion.size();
+    if (data.region.arcs.empty()) {
+        result.outcome = SearchOutcome::no_region;
+        result.notes.push_back(
+            "no solution exists: no real point of the curve satisfies the conditions");
+        return result;
+    }
+    result.hits = torsion_hits(data, target, torsion, 0, options);
+    result.outcome = result.hits.empty() ? SearchOutcome::none_in_torsion : SearchOutcome::found;
+    result.notes.push_back(
+        fmt::format("all {} torsion points tested exactly; {} satisfy the "
+                    "conditions",
+                    torsion.size(), result.hits.size()));
+    return result;
+}
+
 }  // namespace
 
 std::string to_string(SearchOutcome outcome) {
@@ -419,6 +445,8 @@ std::string to_string(SearchOutcome outcome) {
             return "found";
         case SearchOutcome::none_within_bound:
             return "none-within-bound";
+        case SearchOutcome::none_in_torsion:
+            return "none-in-torsion";
         case SearchOutcome::unreachable:
             return "unreachable";
         case SearchOutcome::no_region:
@@ -433,6 +461,7 @@ FirstHitResult first_hit(const family::Target& target, const std::vector<Point>&
                          const std::vector<Point>& torsion_in, const FirstHitOptions& options) {
     std::vector<Point> torsion = torsion_in;
     check_inputs(target, generators, torsion, options);
+    if (generators.empty()) return torsion_only(target, torsion, options);
     if (generators.size() == 1) return rank_one(target, generators, torsion, options);
     return higher_rank(target, generators, torsion, options);
 }

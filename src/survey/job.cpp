@@ -148,9 +148,17 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
                                                basis.rank.lower, *basis.rank.upper)
                                  : fmt::format("rank >= {}; no upper bound", basis.rank.lower));
         }
-        if (basis.saturation_complete) {
-            record["proven"].push_back("the generators and torsion generate E(Q)");
-        } else {
+        if (basis.generates()) {
+            record["proven"].push_back(
+                "the generators and torsion generate E(Q) (rank proven, full rank, saturated)");
+        } else if (basis.saturation_complete && !basis.generators.empty()) {
+            record["proven"].push_back(
+                "the generators and torsion span a saturated subgroup of E(Q) (index bound from "
+                "the lower bound on ĥ)");
+            record["conditional"].push_back(
+                "E(Q) generated: not proven, the rank is not proven equal to the number of "
+                "generators");
+        } else if (!basis.generators.empty()) {
             record["conditional"].push_back(fmt::format(
                 "saturation proved only at primes <= {}: the generators may have a finite index",
                 basis.saturated_up_to));
@@ -172,30 +180,22 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
     if (!have_region) return finish();
 
     record["hit"] = nullptr;
-    if (basis.generators.empty()) {
-        record["outcome"] = "no generators";
-        record["notes"].push_back(
-            basis.rank.known() ? "rank 0: only torsion points, none of which is a solution"
-                               : "no point of infinite order found; the rank is not known to be 0");
-        if (basis.rank.known() && basis.rank.lower == 0) {
-            record["proven"].push_back("E(Q) is finite: no positive solution");
-            record["no_solution_proven"] = true;
-        }
-        return finish();
-    }
+    record["basis_complete"] = basis.generates();
 
+    // The first-hit search runs with or without generators: with none it tests every torsion
+    // point exactly, so a torsion solution (N = 2: (3, 1, 1)) is never missed.
     locate::FirstHitResult located;
     const bool have_hit = stages.run("locate", [&] {
         locate::FirstHitOptions locate_options;
         locate_options.digits = std::max(20u, options.digits);
-        locate_options.saturated_at_2 = basis.saturated_up_to >= 2;
+        locate_options.points_generate_modulo_2 = basis.generates_modulo_2();
         // The height pairing: needed for rank >= 2, and gives ĥ of the hit at rank one.
         const auto heights = height_matrix(curve, basis.generators, options.digits);
         locate::GramMatrix gram(heights.size());
         for (std::size_t i = 0; i < heights.size(); ++i) {
             for (const auto& h : heights[i]) gram[i].push_back(static_cast<double>(h));
         }
-        locate_options.height_matrix = gram;
+        if (!gram.empty()) locate_options.height_matrix = gram;
         // Rank >= 2: search up to 10^4 × the largest generator height (about index 100 along
         // each generator); the lattice has ~π·bound/√regulator points there, each cheap to test.
         double largest = 0;
@@ -209,29 +209,52 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
         for (const auto& note : located.notes) record["notes"].push_back("locate: " + note);
     });
     if (!have_hit) return finish();
-    const bool basis_complete = basis.rank.known() && basis.saturation_complete;
+    const bool basis_complete = basis.generates();
     if (located.outcome != locate::SearchOutcome::found || located.hits.empty()) {
         // An empty region needs no basis at all. "Unreachable" (every generator and torsion
-        // point on the identity component, the region on the egg) is a proof once the rank is
-        // known and the points are saturated at 2: then [E(Q) : <points>] is odd, and for odd m
-        // the component of mQ equals that of Q, so every rational point is on the identity
-        // component. Saturation at larger primes does not matter for this argument.
-        const bool proof = located.outcome == locate::SearchOutcome::no_region ||
-                           (located.outcome == locate::SearchOutcome::unreachable &&
-                            basis.rank.known() && basis.saturated_up_to >= 2);
+        // point on the identity component, the region on the egg) is a proof once the points
+        // generate E(Q)/2E(Q) (rank proven, full rank, saturated at 2): then [E(Q) : <points>]
+        // is odd, and for odd m the component of mQ equals that of Q, so every rational point
+        // is on the identity component. Saturation at larger primes does not matter here.
+        // With no generators and the rank proven 0, E(Q) is the torsion group, every point of
+        // which locate tested exactly.
+        const bool proof =
+            located.outcome == locate::SearchOutcome::no_region ||
+            (located.outcome == locate::SearchOutcome::unreachable && basis.generates_modulo_2()) ||
+            (located.outcome == locate::SearchOutcome::none_in_torsion && basis.generates());
         if (proof) {
-            record["proven"].push_back(
-                located.outcome == locate::SearchOutcome::no_region
-                    ? "no positive solution: no real point satisfies the sign conditions"
-                    : "no positive solution: every rational point lies on the identity component "
-                      "(rank known, points saturated at 2), the target arc on the egg");
+            std::string reason;
+            switch (located.outcome) {
+                case locate::SearchOutcome::no_region:
+                    reason =
+                        "no real point satisfies the sign conditions (sign pattern decided "
+                        "exactly between the region's boundary points)";
+                    break;
+                case locate::SearchOutcome::unreachable:
+                    reason =
+                        "every rational point lies on the identity component (rank proven, "
+                        "the points generate E(Q)/2E(Q)), the target arc on the egg";
+                    break;
+                default:
+                    reason = fmt::format(
+                        "E(Q) is the torsion group (rank 0 proven), and each of its {} points "
+                        "was tested exactly against the conditions",
+                        basis.torsion.points.size());
+            }
+            record["proven"].push_back("no positive solution: " + reason);
             record["no_solution_proven"] = true;
         } else {
-            record["conditional"].push_back("no hit found: " + locate::to_string(located.outcome));
+            record["conditional"].push_back(
+                located.outcome == locate::SearchOutcome::none_in_torsion
+                    ? "no torsion point is a solution, and no point of infinite order was found; "
+                      "the rank is not proven to be 0"
+                    : "no hit found: " + locate::to_string(located.outcome));
         }
         return finish();
     }
     const locate::Hit& hit = located.hits.front();
+    bool torsion_hit = true;
+    for (const auto& n : hit.coefficients) torsion_hit = torsion_hit && n == 0;
     {
         auto& out = record["hit"];
         out["coeffs"] = nlohmann::json::array();
@@ -246,7 +269,12 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
         record["hit_certified"] = true;  // locate decides membership with certified enclosures
         if (hit.canonical_height) record["canonical_height"] = *hit.canonical_height;
         record["proven"].push_back("the combination lands on the target arc (certified enclosure)");
-        if (basis_complete) {
+        if (torsion_hit) {
+            // ĥ >= 0 with equality exactly on torsion points (Silverman AEC VIII.9.3), whatever
+            // the rank.
+            record["proven"].push_back(
+                "it is a torsion point: least canonical height (ĥ = 0) among all solutions");
+        } else if (basis_complete) {
             record["proven"].push_back("it is the solution of least canonical height");
         } else {
             record["conditional"].push_back(
@@ -257,10 +285,28 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
 
     // The exact layer works on index·generator + translate: rank one directly; for a higher
     // rank the combination is formed exactly first (hits there have small coefficients).
+    if (torsion_hit) {
+        // A torsion point is small: map it exactly and check the equation (no fingerprint).
+        stages.run("materialise", [&] {
+            const auto image = family::point_to_triple(*problem.N, hit.translate);
+            if (const auto* degenerate = std::get_if<family::Degenerate>(&image)) {
+                throw std::runtime_error("the torsion hit is degenerate: " + degenerate->reason);
+            }
+            const auto& triple = std::get<family::Triple>(image);
+            const bool holds = family::satisfies_ratio_sum(*problem.N, triple);
+            record["verified"] = holds;
+            record["positive"] = triple.a > 0 && triple.b > 0 && triple.c > 0;
+            record["digits"] = {decimal_digits(triple.a), decimal_digits(triple.b),
+                                decimal_digits(triple.c)};
+            record["solution"] = {to_string(triple.a), to_string(triple.b), to_string(triple.c)};
+            record["digits_certified"] = true;  // exact integers
+            if (holds) record["proven"].push_back("the solution satisfies the equation exactly");
+        });
+        return finish();
+    }
+
     exact::Multiple multiple;
     bool have_multiple = stages.run("combination", [&] {
-        std::size_t nonzero = 0;
-        for (const auto& n : hit.coefficients) nonzero += n != 0 ? 1 : 0;
         if (hit.coefficients.size() == 1) {
             multiple.generator =
                 hit.coefficients[0] < 0 ? negate(curve, basis.generators[0]) : basis.generators[0];
@@ -270,7 +316,6 @@ nlohmann::json run_problem(const ProblemSpec& problem, const JobOptions& options
             multiple.index = 1;
         }
         multiple.translate = hit.translate;
-        if (nonzero == 0) throw std::runtime_error("a torsion hit has no fingerprint");
     });
     if (!have_multiple) return finish();
 

@@ -40,7 +40,8 @@ bool settled_completely(const nlohmann::json& r) {
         rank.value("upper", nlohmann::json()).is_null()) {
         return false;
     }
-    if (!r.value("saturation_complete", false)) return false;
+    // The generators and torsion proven to generate E(Q) (rank proven, full rank, saturated).
+    if (!r.value("basis_complete", false)) return false;
     if (!r.value("hit_certified", false)) return false;
     return r.value("verified", false) || r.value("digits_certified", false);
 }
@@ -90,8 +91,10 @@ std::string readable_report(const nlohmann::json& r) {
     if (r.contains("regulator")) line(out, "regulator", text_of(r["regulator"]));
     if (r.contains("saturated_up_to")) {
         line(out, "saturation",
-             r.value("saturation_complete", false)
-                 ? "proved: the generators and torsion generate E(Q)"
+             r.value("basis_complete", false) ? "proved: the generators and torsion generate E(Q)"
+             : r.value("saturation_complete", false)
+                 ? "proved: the generators and torsion span a saturated subgroup (E(Q) itself "
+                   "only if the rank equals the number of generators, not proven)"
                  : fmt::format("proved at every prime <= {}; beyond that not proved",
                                text_of(r["saturated_up_to"])));
     }
@@ -114,7 +117,10 @@ std::string readable_report(const nlohmann::json& r) {
                 combination += fmt::format("{}{}*P{}", i ? " + " : "", text_of(coeffs[i]), i + 1);
             }
             const auto translate = hit.value("translate", nlohmann::json());
-            combination += " + T, T = " + point_text(translate);
+            bool torsion_only = true;
+            for (const auto& c : coeffs) torsion_only = torsion_only && text_of(c) == "0";
+            combination = torsion_only ? "T = " + point_text(translate) + " (a torsion point)"
+                                       : combination + " + T, T = " + point_text(translate);
             line(out, "first hit", combination);
         }
     }
