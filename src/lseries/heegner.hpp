@@ -46,7 +46,7 @@ struct HeegnerOptions {
     int discriminants_compared = 10; // candidates whose cost is compared
     long discriminant = 0;           // 0: choose; else use this D (must satisfy the hypothesis)
     // Extra decimal digits beyond the prediction (the precision then grows on failure).
-    unsigned extra_digits = 25;
+    unsigned extra_digits = 10;
     std::function<void(const std::string&)> progress;  // one line per stage (may be empty)
 };
 
