@@ -3,6 +3,9 @@
 #include "curve/curve.hpp"
 #include "lseries/coefficients.hpp"
 
+#include <array>
+#include <cstdlib>
+
 namespace arcsieve::lseries {
 namespace {
 
@@ -28,6 +31,71 @@ TEST(Coefficients, ElevenA1MatchesEtaProduct) {
     EXPECT_EQ(curve.conductor, 11);
     const auto a = dirichlet_coefficients(curve, count);
     for (int n = 1; n <= count; ++n) EXPECT_EQ(a[n], series[n]) << "n = " << n;
+}
+
+}  // namespace
+}  // namespace arcsieve::lseries
+
+namespace arcsieve::lseries {
+namespace {
+
+// #E(F_p) by listing all (x, y) (an independent method; common practice).
+long brute_force_count(const Curve& e, long p) {
+    auto r = [&](const Rational& a) {
+        return static_cast<long>(mpz_fdiv_ui(a.get_num_mpz_t(), static_cast<unsigned long>(p)));
+    };
+    const long a1 = r(e.a1), a2 = r(e.a2), a3 = r(e.a3), a4 = r(e.a4), a6 = r(e.a6);
+    long count = 1;
+    for (long x = 0; x < p; ++x) {
+        for (long y = 0; y < p; ++y) {
+            if ((y * y + a1 * x * y + a3 * y - (x * x * x + a2 * x * x + a4 * x + a6)) % p == 0)
+                ++count;
+        }
+    }
+    return count;
+}
+
+TEST(Coefficients, GoodPrimeTracesMatchBruteForceCounts) {
+    std::uint64_t state = 7;
+    auto next = [&](long range) {
+        state = state * 6364136223846793005ULL + 1442695040888963407ULL;
+        return static_cast<long>((state >> 33) % static_cast<std::uint64_t>(2 * range + 1)) - range;
+    };
+    const auto primes = primes_up_to(150);
+    for (int trial = 0; trial < 12; ++trial) {
+        std::array<Rational, 5> coefficients{Rational(next(1)), Rational(next(2)),
+                                             Rational(next(1)), Rational(next(30)),
+                                             Rational(next(30))};
+        Curve e;
+        try {
+            e = make_curve(coefficients);
+        } catch (const InputError&) {
+            continue;  // singular
+        }
+        const auto curve = lseries_curve(e);
+        for (std::uint32_t p : primes) {
+            if (bad_reduction_at(curve, p)) continue;
+            EXPECT_EQ(trace_of_frobenius(curve, p),
+                      static_cast<long>(p) + 1 - brute_force_count(curve.minimal.curve, p))
+                << to_string(e) << " p = " << p;
+        }
+    }
+}
+
+TEST(Coefficients, BabyGiantAgreesWithLegendreSums) {
+    // Two independent counts of #E(F_p) on random short curves and primes up to 3·10^5.
+    const auto primes = primes_up_to(300000);
+    std::uint64_t state = 99;
+    const int trials = std::getenv("ARCSIEVE_TEST_SCALE") ? 60 : 400;
+    for (int trial = 0; trial < trials; ++trial) {
+        state = state * 6364136223846793005ULL + 1442695040888963407ULL;
+        const std::uint64_t p = primes[1000 + (state >> 33) % (primes.size() - 1000)];
+        const std::uint64_t a = (state >> 7) % p, b = (state >> 19) % p;
+        if ((4 * (a * a % p) % p * a + 27 * (b * b % p)) % p == 0) continue;
+        const auto fast = trace_by_baby_giant(a, b, p);
+        EXPECT_EQ(fast, trace_by_legendre_sum(a, b, p)) << "p = " << p << " a = " << a << " b = " << b;
+        EXPECT_LE(fast * fast, static_cast<std::int64_t>(4 * p));  // Hasse
+    }
 }
 
 }  // namespace
