@@ -334,7 +334,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
                         .height_times_sha.convert_to<double>();
             }
             result.analytic = analytic;
-        } catch (const InputError& refusal) {
+        } catch (const std::exception& refusal) {  // refusal (InputError) or undecided
             result.notes.push_back(std::string("analytic rank not computed: ") + refusal.what());
         }
     }

@@ -33,7 +33,7 @@ std::int64_t trace_by_legendre_sum(std::uint64_t a, std::uint64_t b, std::uint64
 // Baby-step giant-step on random points of E and of its quadratic twist (Mestre's argument:
 // for p > 229 one of them has a point whose order has a single multiple in the Hasse interval;
 // Cohen GTM 138 Algorithm 7.4.12, with the twist-by-f trick so that no square roots are taken).
-// O(p^{1/4}) group operations; p < 2^32.
+// O(p^{1/4}) group operations in Montgomery arithmetic and Jacobian coordinates; p < 2^31.
 std::int64_t trace_by_baby_giant(std::uint64_t a, std::uint64_t b, std::uint64_t prime);
 
 // a_p for any prime p (good or bad) of the curve.

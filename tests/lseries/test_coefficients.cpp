@@ -1,6 +1,7 @@
 #include <gtest/gtest.h>
 
 #include "curve/curve.hpp"
+#include "family/ratio_sum.hpp"
 #include "lseries/coefficients.hpp"
 
 #include <array>
@@ -95,6 +96,30 @@ TEST(Coefficients, BabyGiantAgreesWithLegendreSums) {
         const auto fast = trace_by_baby_giant(a, b, p);
         EXPECT_EQ(fast, trace_by_legendre_sum(a, b, p)) << "p = " << p << " a = " << a << " b = " << b;
         EXPECT_LE(fast * fast, static_cast<std::int64_t>(4 * p));  // Hasse
+    }
+}
+
+}  // namespace
+}  // namespace arcsieve::lseries
+
+namespace arcsieve::lseries {
+namespace {
+
+TEST(Coefficients, TorsionRichCurvesMatchLegendreSums) {
+    // E_N has rational torsion Z/2 × Z/6 or Z/6, so random points of E(F_p) often have small
+    // order (the case where ord(P) <= the baby-step bound): every a_p for 1000 < p < 30000
+    // must equal the Legendre sum (regression: E_184 at p = 8147).
+    for (int N : {184, 178}) {
+        const auto curve = lseries_curve(family::ratio_sum_curve(Integer(N)));
+        const auto primes = primes_up_to(30000);
+        const auto traces = prime_traces(curve, 30000);
+        for (std::size_t i = 0; i < primes.size(); ++i) {
+            const std::uint64_t p = primes[i];
+            if (p < 1000 || bad_reduction_at(curve, p)) continue;
+            const std::uint64_t a = (p - mpz_fdiv_ui(curve.c4.get_mpz_t(), p) * 27 % p) % p;
+            const std::uint64_t b = (p - mpz_fdiv_ui(curve.c6.get_mpz_t(), p) * 54 % p) % p;
+            ASSERT_EQ(traces[i], trace_by_legendre_sum(a, b, p)) << "N = " << N << " p = " << p;
+        }
     }
 }
 
