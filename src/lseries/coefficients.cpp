@@ -2,13 +2,13 @@
 
 #include <tbb/blocked_range.h>
 #include <tbb/parallel_for.h>
-#include <tbb/task_arena.h>
 
 #include <algorithm>
 #include <cmath>
 #include <stdexcept>
 
 #include "arith/modular.hpp"
+#include "lseries/threads.hpp"
 
 namespace arcsieve::lseries {
 
@@ -28,21 +28,6 @@ struct SmallField {
         return s >= p ? s - p : s;
     }
     std::uint64_t sub(std::uint64_t x, std::uint64_t y) const { return x >= y ? x - y : x + p - y; }
-    // Extended Euclid; x != 0 mod p.
-    std::uint64_t inverse(std::uint64_t x) const {
-        std::int64_t r0 = static_cast<std::int64_t>(p), r1 = static_cast<std::int64_t>(x);
-        std::int64_t s0 = 0, s1 = 1;
-        while (r1 != 0) {
-            const std::int64_t q = r0 / r1;
-            std::int64_t t = r0 - q * r1;
-            r0 = r1;
-            r1 = t;
-            t = s0 - q * s1;
-            s0 = s1;
-            s1 = t;
-        }
-        return static_cast<std::uint64_t>(s0 < 0 ? s0 + static_cast<std::int64_t>(p) : s0);
-    }
 };
 
 // Jacobi symbol (x/n) for odd n > 0 (binary algorithm; common practice).
@@ -289,15 +274,6 @@ std::int64_t count_points_directly(const Curve& e, std::uint64_t p) {
     return count;
 }
 
-template <class F>
-void run_with_threads(unsigned threads, F&& body) {
-    if (threads == 0) {
-        body();
-        return;
-    }
-    tbb::task_arena arena(static_cast<int>(threads));
-    arena.execute(body);
-}
 
 }  // namespace
 

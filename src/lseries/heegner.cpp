@@ -2,7 +2,6 @@
 
 #include <fmt/format.h>
 #include <tbb/parallel_for.h>
-#include <tbb/task_arena.h>
 
 #include <algorithm>
 #include <atomic>
@@ -18,6 +17,7 @@
 #include "arith/modular.hpp"
 #include "curve/torsion.hpp"
 #include "lseries/special_values.hpp"
+#include "lseries/threads.hpp"
 
 namespace arcsieve::lseries {
 
@@ -53,36 +53,6 @@ Interval interval_bits(unsigned bits) {
     return interval_zero(digits_for_bits(bits));
 }
 
-// Tonelli–Shanks square root of d modulo an odd prime p (common practice); d a nonzero square.
-std::uint64_t sqrt_mod_prime(std::uint64_t d, std::uint64_t p) {
-    d %= p;
-    if (p % 4 == 3) return pow_mod(d, (p + 1) / 4, p);
-    std::uint64_t q = p - 1;
-    int s = 0;
-    while (q % 2 == 0) {
-        q /= 2;
-        ++s;
-    }
-    std::uint64_t z = 2;
-    while (pow_mod(z, (p - 1) / 2, p) != p - 1) ++z;
-    std::uint64_t m = static_cast<std::uint64_t>(s), c = pow_mod(z, q, p), t = pow_mod(d, q, p),
-                  r = pow_mod(d, (q + 1) / 2, p);
-    while (t != 1) {
-        std::uint64_t i = 0, t2 = t;
-        while (t2 != 1) {
-            t2 = mul_mod(t2, t2, p);
-            ++i;
-        }
-        std::uint64_t b = c;
-        for (std::uint64_t j = 0; j + 1 < m - i; ++j) b = mul_mod(b, b, p);
-        m = i;
-        c = mul_mod(b, b, p);
-        t = mul_mod(t, c, p);
-        r = mul_mod(r, b, p);
-    }
-    return r;
-}
-
 // The reduced form equivalent to (a, b, c) under SL2(Z) (positive definite; Cohen GTM 138
 // Algorithm 5.4.2).
 std::tuple<Integer, Integer, Integer> reduce_form(Integer a, Integer b, Integer c, long D) {
@@ -116,15 +86,6 @@ std::uint64_t terms_for_form(const HeegnerForm& form, long D, unsigned digits) {
     return static_cast<std::uint64_t>(std::ceil(need / decay)) + 8;
 }
 
-template <class F>
-void run_with_threads(unsigned threads, F&& body) {
-    if (threads == 0) {
-        body();
-        return;
-    }
-    tbb::task_arena arena(static_cast<int>(threads));
-    arena.execute(body);
-}
 
 // Σ_{lo <= n < hi} a_n/n q^n for one form, as an enclosure at `result_bits`.
 void chunk_sum(const HeegnerForm& form, long D, const std::vector<std::int32_t>& a,

@@ -3,12 +3,13 @@
 #include <fmt/format.h>
 #include <tbb/blocked_range.h>
 #include <tbb/parallel_reduce.h>
-#include <tbb/task_arena.h>
 
 #include <cmath>
 #include <cstdlib>
 #include <sstream>
 #include <stdexcept>
+
+#include "lseries/threads.hpp"
 
 namespace arcsieve::lseries {
 
@@ -80,12 +81,6 @@ Interval log_polynomial(int r, const Interval& t, unsigned bits) {
     return u * u * u / 6 + u * zeta2 / 2 - zeta3(bits) / 3;
 }
 
-template <class F>
-auto run_with_threads(unsigned threads, F&& body) {
-    if (threads == 0) return body();
-    tbb::task_arena arena(static_cast<int>(threads));
-    return arena.execute(body);
-}
 
 // x0 = 2π/(scale·√N) as an enclosure.
 Interval series_step(const Integer& conductor, const Interval& scale, unsigned bits) {
