@@ -44,12 +44,17 @@ void BM_TraceBabyGiant(benchmark::State& state) {
         benchmark::DoNotOptimize(trace_by_baby_giant(17 % p, 23 % p, p));
     }
 }
-BENCHMARK(BM_TraceBabyGiant)->Arg(100000)->Arg(1000000)->Arg(10000000)->Unit(benchmark::kMicrosecond);
+BENCHMARK(BM_TraceBabyGiant)
+    ->Arg(100000)
+    ->Arg(1000000)
+    ->Arg(10000000)
+    ->Unit(benchmark::kMicrosecond);
 
 void BM_PrimeTracesUpTo1e6(benchmark::State& state) {
     const auto curve = lseries_curve(family::ratio_sum_curve(Integer(178)));
     for (auto _ : state) {
-        benchmark::DoNotOptimize(prime_traces(curve, 1000000, static_cast<unsigned>(state.range(0))));
+        benchmark::DoNotOptimize(
+            prime_traces(curve, 1000000, static_cast<unsigned>(state.range(0))));
     }
 }
 BENCHMARK(BM_PrimeTracesUpTo1e6)->Arg(1)->Arg(2)->Unit(benchmark::kMillisecond)->UseRealTime();

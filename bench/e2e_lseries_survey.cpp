@@ -45,10 +45,12 @@ int main(int argc, char** argv) {
         for (const auto& s : b.generator_sources) sources += (sources.empty() ? "" : "+") + s;
         std::cout << fmt::format("N = {:3d}: rank {} .. {} ({}) generators {} [{}] {:.2f} s", N,
                                  b.rank.lower, b.rank.upper ? std::to_string(*b.rank.upper) : "?",
-                                 b.rank.known() ? "proven by " + how : "open",
-                                 b.generators.size(), sources, seconds);
-        if (b.rank.known()) ++proven;
-        else open.push_back(std::to_string(N));
+                                 b.rank.known() ? "proven by " + how : "open", b.generators.size(),
+                                 sources, seconds);
+        if (b.rank.known())
+            ++proven;
+        else
+            open.push_back(std::to_string(N));
         if (b.rank.known() && b.rank.lower == 1 && b.generators.empty() && b.analytic) {
             try {
                 lseries::HeegnerOptions h;

@@ -379,8 +379,8 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
                 completed.analytic->heegner = heegner;
                 completed.root_number = result.root_number;
                 completed.rank.lower = completed.rank.upper.emplace(1);
-                completed.generator_sources = {fmt::format(
-                    "Heegner point (D = {}, index {})", heegner->discriminant, heegner->index)};
+                completed.generator_sources = {fmt::format("Heegner point (D = {}, index {})",
+                                                           heegner->discriminant, heegner->index)};
                 completed.notes.insert(completed.notes.begin(), result.notes.begin(),
                                        result.notes.end());
                 return completed;

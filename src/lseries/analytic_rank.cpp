@@ -76,8 +76,9 @@ AnalyticRank analytic_rank(const LSeriesCurve& lcurve, const std::vector<std::in
             "certified functional equation f(i/(Ny)) = w·N·y²·f(iy) (interval enclosures); a "
             "local factor at 2 or 3 is not tabulated here";
     } else {
-        result.root_number_reason = "undecided: a local factor at 2 or 3 is not tabulated and "
-                                    "the functional-equation enclosures decided neither sign";
+        result.root_number_reason =
+            "undecided: a local factor at 2 or 3 is not tabulated and "
+            "the functional-equation enclosures decided neither sign";
         result.notes.push_back("root number unknown: no L-value claims");
         result.seconds = elapsed(start);
         return result;
@@ -112,16 +113,16 @@ AnalyticRank analytic_rank(const LSeriesCurve& lcurve, const std::vector<std::in
     if (result.terms <= options.max_higher_order_terms) {
         SpecialValue higher;
         higher.order = first + 2;
-        higher.value = special_value(lcurve.conductor, a, first + 2, options.digits,
-                                     options.threads) /
-                       (first == 0 ? 2 : 6);
-        higher.condition = first == 0 ? "valid if L(E,1) = 0 (not proved)"
-                                      : "valid if L'(E,1) = 0 (not proved)";
+        higher.value =
+            special_value(lcurve.conductor, a, first + 2, options.digits, options.threads) /
+            (first == 0 ? 2 : 6);
+        higher.condition =
+            first == 0 ? "valid if L(E,1) = 0 (not proved)" : "valid if L'(E,1) = 0 (not proved)";
         result.values.push_back(higher);
     } else {
-        result.notes.push_back(fmt::format(
-            "L^({})(E,1) not computed: {} terms exceed the higher-order limit {}", first + 2,
-            result.terms, options.max_higher_order_terms));
+        result.notes.push_back(
+            fmt::format("L^({})(E,1) not computed: {} terms exceed the higher-order limit {}",
+                        first + 2, result.terms, options.max_higher_order_terms));
     }
     result.seconds = elapsed(start);
     return result;

@@ -35,9 +35,9 @@ struct SeriesCost {
 SeriesCost series_cost(const Integer& conductor, unsigned digits);
 
 struct SpecialValue {
-    int order = 0;           // r
-    Interval value;          // encloses L^(r)(E,1) / r!
-    std::string condition;   // empty, or the assumption the value rests on
+    int order = 0;          // r
+    Interval value;         // encloses L^(r)(E,1) / r!
+    std::string condition;  // empty, or the assumption the value rests on
 };
 
 enum class RankProof { none, rank_zero_kolyvagin, rank_one_gross_zagier_kolyvagin };

@@ -217,8 +217,9 @@ std::vector<std::int64_t> orders_killing(const ShortCurve& E, const AffinePoint&
     std::sort(baby.begin(), baby.end());
     const std::int64_t step = 2 * s + 1;
     const std::int64_t k_max = (bound + s) / step + 1;
-    std::vector<JacobianPoint32> pair{E.multiply(P, static_cast<std::uint64_t>(step)),
-                                      E.multiply(P, static_cast<std::uint64_t>(center - k_max * step))};
+    std::vector<JacobianPoint32> pair{
+        E.multiply(P, static_cast<std::uint64_t>(step)),
+        E.multiply(P, static_cast<std::uint64_t>(center - k_max * step))};
     const auto pair_affine = E.normalise(pair);
     const AffinePoint giant = pair_affine[0];
     std::vector<JacobianPoint32> giants;
@@ -273,7 +274,6 @@ std::int64_t count_points_directly(const Curve& e, std::uint64_t p) {
     }
     return count;
 }
-
 
 }  // namespace
 
@@ -339,7 +339,8 @@ std::int64_t trace_by_baby_giant(std::uint64_t a, std::uint64_t b, std::uint64_t
         // #curve = p + 1 − chi·a_p
         if (!have_candidates || candidates.size() > 8) {
             std::vector<std::int64_t> from_point;
-            for (std::int64_t m : orders_killing(curve, P)) from_point.push_back(chi * (center - m));
+            for (std::int64_t m : orders_killing(curve, P))
+                from_point.push_back(chi * (center - m));
             std::sort(from_point.begin(), from_point.end());
             if (!have_candidates) {
                 candidates = from_point;
@@ -369,10 +370,14 @@ std::int64_t trace_by_baby_giant(std::uint64_t a, std::uint64_t b, std::uint64_t
 std::int64_t trace_of_frobenius(const LSeriesCurve& curve, std::uint64_t prime) {
     if (const LocalReduction* local = bad_reduction_at(curve, prime)) {
         switch (local->kind) {
-            case ReductionKind::split_multiplicative: return 1;
-            case ReductionKind::nonsplit_multiplicative: return -1;
-            case ReductionKind::additive: return 0;
-            case ReductionKind::good: break;
+            case ReductionKind::split_multiplicative:
+                return 1;
+            case ReductionKind::nonsplit_multiplicative:
+                return -1;
+            case ReductionKind::additive:
+                return 0;
+            case ReductionKind::good:
+                break;
         }
         throw std::logic_error("bad prime with good reduction kind");
     }
@@ -403,13 +408,13 @@ std::vector<std::int32_t> prime_traces(const LSeriesCurve& curve, std::uint32_t 
     const auto primes = primes_up_to(limit);
     std::vector<std::int32_t> traces(primes.size());
     run_with_threads(threads, [&] {
-        tbb::parallel_for(tbb::blocked_range<std::size_t>(0, primes.size(), 512),
-                          [&](const tbb::blocked_range<std::size_t>& range) {
-                              for (std::size_t i = range.begin(); i != range.end(); ++i) {
-                                  traces[i] = static_cast<std::int32_t>(
-                                      trace_of_frobenius(curve, primes[i]));
-                              }
-                          });
+        tbb::parallel_for(
+            tbb::blocked_range<std::size_t>(0, primes.size(), 512),
+            [&](const tbb::blocked_range<std::size_t>& range) {
+                for (std::size_t i = range.begin(); i != range.end(); ++i) {
+                    traces[i] = static_cast<std::int32_t>(trace_of_frobenius(curve, primes[i]));
+                }
+            });
     });
     return traces;
 }
@@ -432,8 +437,8 @@ std::vector<std::int32_t> dirichlet_coefficients(const LSeriesCurve& curve, std:
                 a[static_cast<std::size_t>(n)] =
                     static_cast<std::int32_t>(a[static_cast<std::size_t>(n)] * current);
             }
-            const std::int64_t next = bad ? current * traces[i]
-                                          : traces[i] * current - p * previous;
+            const std::int64_t next =
+                bad ? current * traces[i] : traces[i] * current - p * previous;
             previous = current;
             current = next;
             if (q > count / p) break;

@@ -86,7 +86,6 @@ std::uint64_t terms_for_form(const HeegnerForm& form, long D, unsigned digits) {
     return static_cast<std::uint64_t>(std::ceil(need / decay)) + 8;
 }
 
-
 // Σ_{lo <= n < hi} a_n/n q^n for one form, as an enclosure at `result_bits`.
 void chunk_sum(const HeegnerForm& form, long D, const std::vector<std::int32_t>& a,
                std::uint64_t lo, std::uint64_t hi, unsigned target_bits, Interval& out_real,
@@ -148,10 +147,9 @@ void chunk_sum(const HeegnerForm& form, long D, const std::vector<std::int32_t>&
     // A priori rounding bound: every |q^n| computed carries relative error <= (4L + 8)u, each
     // term two more roundings, each accumulation one rounding of a partial sum bounded by
     // Σ 2|q|^n; with |a_n|/n <= 2: radius <= u (6L + 16)·2|q|^lo/(1 − |q|), doubled for safety.
-    const double log_radius = (1.0 - static_cast<double>(precision)) * ln2 +
-                              std::log(6 * length + 16) + std::log(4.0) +
-                              static_cast<double>(lo) * log_q - std::log(-std::expm1(log_q)) +
-                              std::log(2.0);
+    const double log_radius =
+        (1.0 - static_cast<double>(precision)) * ln2 + std::log(6 * length + 16) + std::log(4.0) +
+        static_cast<double>(lo) * log_q - std::log(-std::expm1(log_q)) + std::log(2.0);
     Mpfr radius(64), low(precision + 8), high(precision + 8);
     mpfr_set_d(radius.v, log_radius, MPFR_RNDU);
     mpfr_exp(radius.v, radius.v, MPFR_RNDU);
@@ -244,8 +242,10 @@ std::optional<Integer> square_root_mod_4n(const Integer& conductor,
     std::vector<std::pair<std::uint64_t, int>> powers;
     int two = 2;
     for (const auto& local : bad) {
-        if (local.prime == 2) two += local.conductor_exponent;
-        else powers.push_back({local.prime.get_ui(), local.conductor_exponent});
+        if (local.prime == 2)
+            two += local.conductor_exponent;
+        else
+            powers.push_back({local.prime.get_ui(), local.conductor_exponent});
     }
     Integer x = 0, modulus = 1;
     auto combine = [&](const Integer& r, const Integer& m) {  // CRT
@@ -257,8 +257,8 @@ std::optional<Integer> square_root_mod_4n(const Integer& conductor,
     };
     {
         const std::uint64_t m = 1ULL << two;
-        const auto d = static_cast<std::uint64_t>(((D % static_cast<long>(m)) + static_cast<long>(m)) %
-                                                  static_cast<long>(m));
+        const auto d = static_cast<std::uint64_t>(
+            ((D % static_cast<long>(m)) + static_cast<long>(m)) % static_cast<long>(m));
         std::optional<std::uint64_t> root;
         for (std::uint64_t y = 0; y < m && !root; ++y) {
             if (y * y % m == d) root = y;
@@ -267,8 +267,8 @@ std::optional<Integer> square_root_mod_4n(const Integer& conductor,
         combine(Integer(static_cast<unsigned long>(*root)), Integer(static_cast<unsigned long>(m)));
     }
     for (const auto& [p, k] : powers) {
-        const auto d = static_cast<std::uint64_t>(((D % static_cast<long>(p)) + static_cast<long>(p)) %
-                                                  static_cast<long>(p));
+        const auto d = static_cast<std::uint64_t>(
+            ((D % static_cast<long>(p)) + static_cast<long>(p)) % static_cast<long>(p));
         if (d == 0 || pow_mod(d, (p - 1) / 2, p) != 1) return std::nullopt;
         Integer root = static_cast<unsigned long>(sqrt_mod_prime(d, p));
         Integer pk = static_cast<unsigned long>(p);
@@ -345,7 +345,7 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
         double cost;
     };
     std::vector<Candidate> candidates;
-    for (long D = -7; -D <= options.max_discriminant &&
+    for (long D = -7; - D <= options.max_discriminant &&
                       static_cast<int>(candidates.size()) < options.discriminants_compared;
          --D) {
         if (options.discriminant != 0 && D != options.discriminant) continue;
@@ -357,9 +357,10 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
         candidates.push_back(std::move(c));
     }
     if (candidates.empty()) {
-        throw InputError(fmt::format("no discriminant D with |D| <= {} satisfies the Heegner "
-                                     "hypothesis for conductor {}: raise the discriminant bound",
-                                     options.max_discriminant, to_string(curve.conductor)));
+        throw InputError(
+            fmt::format("no discriminant D with |D| <= {} satisfies the Heegner "
+                        "hypothesis for conductor {}: raise the discriminant bound",
+                        options.max_discriminant, to_string(curve.conductor)));
     }
     std::sort(candidates.begin(), candidates.end(),
               [](const Candidate& x, const Candidate& y) { return x.cost < y.cost; });
@@ -374,8 +375,8 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
         const Integer twisted_conductor = curve.conductor * c.D * c.D;
         const std::uint64_t twist_terms = special_value_terms(twisted_conductor, 12);
         if (twist_terms > twist_limit) {
-            report(options, fmt::format("D = {}: L(E_D,1) needs {} terms, skipped", c.D,
-                                        twist_terms));
+            report(options,
+                   fmt::format("D = {}: L(E_D,1) needs {} terms, skipped", c.D, twist_terms));
             continue;
         }
         if (a.size() <= twist_terms) {
@@ -396,9 +397,8 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
         const double l_twist = median(value).convert_to<double>();
         plan.predicted_heegner_height =
             std::sqrt(static_cast<double>(-c.D)) * l_prime * l_twist / (4 * covolume);
-        plan.predicted_index =
-            std::sqrt(plan.predicted_heegner_height /
-                      std::max(1e-30, plan.predicted_generator_height));
+        plan.predicted_index = std::sqrt(plan.predicted_heegner_height /
+                                         std::max(1e-30, plan.predicted_generator_height));
         break;
     }
     if (plan.discriminant == 0) {
@@ -408,9 +408,9 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
             "limit",
             candidates.size(), twist_limit));
     }
-    plan.digits = static_cast<unsigned>(std::ceil(
-        1.1 * 2 * generator_height / ln10 + std::log10(plan.predicted_index + 2) +
-        options.extra_digits));
+    plan.digits = static_cast<unsigned>(std::ceil(1.1 * 2 * generator_height / ln10 +
+                                                  std::log10(plan.predicted_index + 2) +
+                                                  options.extra_digits));
     for (const auto& f : plan.forms) {
         const std::uint64_t m = terms_for_form(f, plan.discriminant, plan.digits);
         plan.form_terms.push_back(m);
@@ -429,8 +429,8 @@ HeegnerPlan plan_heegner(const LSeriesCurve& curve, const Interval& first_deriva
                   static_cast<unsigned>(plan.digits * 3.33), re, im);
         const double per_term = seconds_since(start) / static_cast<double>(sample);
         const double threads = options.threads == 0 ? 2.0 : options.threads;
-        const double primes = static_cast<double>(plan.max_terms) /
-                              std::log(static_cast<double>(plan.max_terms) + 2);
+        const double primes =
+            static_cast<double>(plan.max_terms) / std::log(static_cast<double>(plan.max_terms) + 2);
         // a_p: about 2.5e-7·p^{1/4} s per prime (baby-step giant-step, measured at 10^6..10^7).
         const double per_prime = 2.5e-7 * std::pow(static_cast<double>(plan.max_terms), 0.25);
         const double core_seconds =
@@ -478,8 +478,8 @@ HeegnerPartialSum heegner_partial_sum(const HeegnerPlan& plan, const std::vector
         });
     });
     if (late) {
-        throw std::runtime_error(fmt::format("Heegner sum stopped at the time limit of {:.0f} s",
-                                             deadline_seconds));
+        throw std::runtime_error(
+            fmt::format("Heegner sum stopped at the time limit of {:.0f} s", deadline_seconds));
     }
     HeegnerPartialSum sum;
     sum.begin = begin;
@@ -512,8 +512,7 @@ HeegnerPartialSum merge(const HeegnerPartialSum& x, const HeegnerPartialSum& y) 
 
 std::string serialise(const HeegnerPartialSum& sum) {
     return fmt::format("heegner-partial-sum {} {} {} {} {}", sum.begin, sum.end,
-                       sum.real.precision(), interval_text(sum.real),
-                       interval_text(sum.imaginary));
+                       sum.real.precision(), interval_text(sum.real), interval_text(sum.imaginary));
 }
 
 HeegnerPartialSum deserialise_partial_sum(const std::string& text) {
@@ -670,8 +669,8 @@ std::optional<HeegnerResult> recover_heegner_point(const LSeriesCurve& curve,
         const Real s2 = wi / real.imaginary_period_im;
         const Real s1 = (wr - s2 * real.imaginary_period_re) / real.real_period;
         const double s2d = s2.convert_to<double>();
-        const bool on_real_locus = rectangular ? fractional_distance(2 * s2d) < 1e-6
-                                               : fractional_distance(s2d) < 1e-6;
+        const bool on_real_locus =
+            rectangular ? fractional_distance(2 * s2d) < 1e-6 : fractional_distance(s2d) < 1e-6;
         if (!on_real_locus) continue;
         for (int l : indices) {
             for (const Log& t : torsion_logs) {
@@ -680,8 +679,7 @@ std::optional<HeegnerResult> recover_heegner_point(const LSeriesCurve& curve,
                     if (rectangular ? fractional_distance(2 * s2u) > 1e-6
                                     : fractional_distance(s2u) > 1e-6)
                         continue;
-                    const int component =
-                        rectangular && fractional_distance(s2u) > 0.25 ? 1 : 0;
+                    const int component = rectangular && fractional_distance(s2u) > 0.25 ? 1 : 0;
                     for (int m1 = 0; m1 < l; ++m1) {
                         Real t_value = (s1 - t.s1 + m1) / l;
                         t_value -= floor(t_value);
@@ -723,14 +721,14 @@ std::optional<HeegnerResult> heegner_point(const Curve& curve, const AnalyticRan
     HeegnerOptions current = options;
     for (int attempt = 0; attempt < 3; ++attempt) {
         const HeegnerPlan plan = plan_heegner(lcurve, *derivative, current);
-        report(options,
-               fmt::format("Heegner plan: D = {}, {} forms, predicted ĥ(P) = {:.6g} (BSD, |Sha| = "
-                           "1), ĥ(y_K) = {:.6g} (Gross–Zagier), index ≈ {:.3g}, {} digits, {} "
-                           "terms (max {}), estimate {:.1f} s ({:.3g} core-hours)",
-                           plan.discriminant, plan.forms.size(), plan.predicted_generator_height,
-                           plan.predicted_heegner_height, plan.predicted_index, plan.digits,
-                           plan.total_terms, plan.max_terms, plan.seconds_estimate,
-                           plan.core_hours));
+        report(
+            options,
+            fmt::format("Heegner plan: D = {}, {} forms, predicted ĥ(P) = {:.6g} (BSD, |Sha| = "
+                        "1), ĥ(y_K) = {:.6g} (Gross–Zagier), index ≈ {:.3g}, {} digits, {} "
+                        "terms (max {}), estimate {:.1f} s ({:.3g} core-hours)",
+                        plan.discriminant, plan.forms.size(), plan.predicted_generator_height,
+                        plan.predicted_heegner_height, plan.predicted_index, plan.digits,
+                        plan.total_terms, plan.max_terms, plan.seconds_estimate, plan.core_hours));
         if (plan.max_terms > options.max_terms) {
             throw InputError(fmt::format(
                 "the Heegner sum needs {} terms (a_n up to {}; about {:.3g} core-hours), above "
@@ -744,18 +742,18 @@ std::optional<HeegnerResult> heegner_point(const Curve& curve, const AnalyticRan
                 "the time left ({:.0f} s of the limit): raise the time limit to allow it",
                 plan.seconds_estimate, plan.total_terms, plan.core_hours, remaining));
         }
-        const auto a = dirichlet_coefficients(lcurve, static_cast<std::uint32_t>(plan.max_terms + 1),
-                                              options.threads);
+        const auto a = dirichlet_coefficients(
+            lcurve, static_cast<std::uint32_t>(plan.max_terms + 1), options.threads);
         const HeegnerPartialSum sum =
             heegner_partial_sum(plan, a, 1, plan.max_terms + 1, options.threads,
                                 options.time_limit_seconds - seconds_since(start));
         const HeegnerTrace trace = heegner_trace(plan, sum);
         if (auto result = recover_heegner_point(lcurve, plan, trace)) {
             result->seconds = seconds_since(start);
-            result->notes.push_back(fmt::format(
-                "Heegner point for D = {} ({} classes), index {}, {} digits, {} terms",
-                plan.discriminant, plan.forms.size(), result->index, plan.digits,
-                plan.total_terms));
+            result->notes.push_back(
+                fmt::format("Heegner point for D = {} ({} classes), index {}, {} digits, {} terms",
+                            plan.discriminant, plan.forms.size(), result->index, plan.digits,
+                            plan.total_terms));
             return result;
         }
         note(fmt::format("no rational point recognised at {} digits; raising the precision",

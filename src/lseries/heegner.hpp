@@ -39,12 +39,12 @@ struct HeegnerForm {
 };
 
 struct HeegnerOptions {
-    unsigned threads = 0;            // 0: TBB decides
-    double time_limit_seconds = 900;  // refuse a sum whose estimate exceeds this; stop at it
+    unsigned threads = 0;                   // 0: TBB decides
+    double time_limit_seconds = 900;        // refuse a sum whose estimate exceeds this; stop at it
     std::uint64_t max_terms = 400'000'000;  // refuse above (a_n table and sum length)
-    long max_discriminant = 3000;    // |D| searched up to this
-    int discriminants_compared = 10; // candidates whose cost is compared
-    long discriminant = 0;           // 0: choose; else use this D (must satisfy the hypothesis)
+    long max_discriminant = 3000;           // |D| searched up to this
+    int discriminants_compared = 10;        // candidates whose cost is compared
+    long discriminant = 0;  // 0: choose; else use this D (must satisfy the hypothesis)
     // Extra decimal digits beyond the prediction (the precision then grows on failure).
     unsigned extra_digits = 10;
     std::function<void(const std::string&)> progress;  // one line per stage (may be empty)

@@ -14,25 +14,34 @@ std::string line(const std::string& label, const std::string& text) {
 
 std::string endpoint(const Interval& x, bool upper) {
     Real r(0, 40);
-    if (upper) mpfi_get_right(r.backend().data(), x.backend().data());
-    else mpfi_get_left(r.backend().data(), x.backend().data());
+    if (upper)
+        mpfi_get_right(r.backend().data(), x.backend().data());
+    else
+        mpfi_get_left(r.backend().data(), x.backend().data());
     return r.str(20, std::ios_base::scientific);
 }
 
 std::string value_name(const SpecialValue& v) {
     switch (v.order) {
-        case 0: return "L(E,1)";
-        case 1: return "L'(E,1)";
-        case 2: return "L''(E,1)/2";
-        default: return "L'''(E,1)/6";
+        case 0:
+            return "L(E,1)";
+        case 1:
+            return "L'(E,1)";
+        case 2:
+            return "L''(E,1)/2";
+        default:
+            return "L'''(E,1)/6";
     }
 }
 
 const char* proof_key(RankProof proof) {
     switch (proof) {
-        case RankProof::rank_zero_kolyvagin: return "kolyvagin-rank-zero";
-        case RankProof::rank_one_gross_zagier_kolyvagin: return "gross-zagier-kolyvagin-rank-one";
-        case RankProof::none: break;
+        case RankProof::rank_zero_kolyvagin:
+            return "kolyvagin-rank-zero";
+        case RankProof::rank_one_gross_zagier_kolyvagin:
+            return "gross-zagier-kolyvagin-rank-one";
+        case RankProof::none:
+            break;
     }
     return "none";
 }
@@ -50,8 +59,8 @@ std::vector<std::string> report_lines(const AnalyticReport& report) {
                                                 (v.condition.empty() ? "" : "  " + v.condition)));
     }
     if (r.proven_rank) {
-        lines.push_back(line("analytic rank", fmt::format("{} proven: {}", *r.proven_rank,
-                                                          r.proof_reason)));
+        lines.push_back(
+            line("analytic rank", fmt::format("{} proven: {}", *r.proven_rank, r.proof_reason)));
     } else if (r.root_number) {
         lines.push_back(line("analytic rank",
                              fmt::format(">= {} only (the enclosure at the order used contains "
@@ -59,17 +68,17 @@ std::vector<std::string> report_lines(const AnalyticReport& report) {
                                          r.analytic_rank_lower)));
     }
     if (report.predicted_generator_height) {
-        lines.push_back(line("predicted height",
-                             fmt::format("ĥ(P)·|Sha| = {:.10g} (conditional on BSD)",
-                                         *report.predicted_generator_height)));
+        lines.push_back(
+            line("predicted height", fmt::format("ĥ(P)·|Sha| = {:.10g} (conditional on BSD)",
+                                                 *report.predicted_generator_height)));
     }
     if (report.heegner) {
-        lines.push_back(line("Heegner point",
-                             fmt::format("D = {}, index {}, {} digits, {} terms, {:.1f} s; "
-                                         "verified exactly on the curve",
-                                         report.heegner->discriminant, report.heegner->index,
-                                         report.heegner->digits, report.heegner->terms,
-                                         report.heegner->seconds)));
+        lines.push_back(line(
+            "Heegner point",
+            fmt::format("D = {}, index {}, {} digits, {} terms, {:.1f} s; "
+                        "verified exactly on the curve",
+                        report.heegner->discriminant, report.heegner->index, report.heegner->digits,
+                        report.heegner->terms, report.heegner->seconds)));
     }
     for (const auto& note : report.notes) lines.push_back(line("analytic note", note));
     for (const auto& note : r.notes) lines.push_back(line("analytic note", note));
@@ -109,14 +118,14 @@ nlohmann::json to_json(const AnalyticReport& report) {
         j["bsd_height_is_conditional"] = true;
     }
     if (report.heegner) {
-        j["heegner"] = {{"discriminant", report.heegner->discriminant},
-                        {"index", report.heegner->index},
-                        {"lattice_multiplier", report.heegner->multiplier},
-                        {"digits", report.heegner->digits},
-                        {"terms", report.heegner->terms},
-                        {"seconds", report.heegner->seconds},
-                        {"point", {to_string(report.heegner->point.x),
-                                   to_string(report.heegner->point.y)}}};
+        j["heegner"] = {
+            {"discriminant", report.heegner->discriminant},
+            {"index", report.heegner->index},
+            {"lattice_multiplier", report.heegner->multiplier},
+            {"digits", report.heegner->digits},
+            {"terms", report.heegner->terms},
+            {"seconds", report.heegner->seconds},
+            {"point", {to_string(report.heegner->point.x), to_string(report.heegner->point.y)}}};
     }
     nlohmann::json notes = nlohmann::json::array();
     for (const auto& n : report.notes) notes.push_back(n);

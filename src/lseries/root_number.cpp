@@ -42,7 +42,8 @@ std::vector<LocalRootNumber> local_root_numbers(const LSeriesCurve& curve) {
                 break;
             case ReductionKind::additive: {
                 if (p < 5) {
-                    entry.rule = fmt::format("additive at {}: Halberstadt/Rizzo tables not implemented", p);
+                    entry.rule =
+                        fmt::format("additive at {}: Halberstadt/Rizzo tables not implemented", p);
                     break;
                 }
                 const int v_delta = local.discriminant_valuation;

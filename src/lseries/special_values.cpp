@@ -81,7 +81,6 @@ Interval log_polynomial(int r, const Interval& t, unsigned bits) {
     return u * u * u / 6 + u * zeta2 / 2 - zeta3(bits) / 3;
 }
 
-
 // x0 = 2π/(scale·√N) as an enclosure.
 Interval series_step(const Integer& conductor, const Interval& scale, unsigned bits) {
     Interval n = make_interval(conductor, digits_for_bits(bits));

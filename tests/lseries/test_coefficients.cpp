@@ -1,11 +1,11 @@
 #include <gtest/gtest.h>
 
+#include <array>
+#include <cstdlib>
+
 #include "curve/curve.hpp"
 #include "family/ratio_sum.hpp"
 #include "lseries/coefficients.hpp"
-
-#include <array>
-#include <cstdlib>
 
 namespace arcsieve::lseries {
 namespace {
@@ -16,7 +16,7 @@ namespace {
 TEST(Coefficients, ElevenA1MatchesEtaProduct) {
     const int count = 400;
     std::vector<long> series(count + 1, 0);
-    series[1] = 1;  // q
+    series[1] = 1;                      // q
     auto multiply_by = [&](int step) {  // (1 − q^step)
         for (int n = count; n >= step; --n) series[n] -= series[n - step];
     };
@@ -94,7 +94,8 @@ TEST(Coefficients, BabyGiantAgreesWithLegendreSums) {
         const std::uint64_t a = (state >> 7) % p, b = (state >> 19) % p;
         if ((4 * (a * a % p) % p * a + 27 * (b * b % p)) % p == 0) continue;
         const auto fast = trace_by_baby_giant(a, b, p);
-        EXPECT_EQ(fast, trace_by_legendre_sum(a, b, p)) << "p = " << p << " a = " << a << " b = " << b;
+        EXPECT_EQ(fast, trace_by_legendre_sum(a, b, p))
+            << "p = " << p << " a = " << a << " b = " << b;
         EXPECT_LE(fast * fast, static_cast<std::int64_t>(4 * p));  // Hasse
     }
 }

@@ -150,8 +150,9 @@ TEST(Heegner, DiscriminantsAndForms) {
 TEST(Heegner, MpiRanksGiveTheThreadedResult) {
     if (std::system("command -v mpirun > /dev/null 2>&1") != 0) GTEST_SKIP() << "no mpirun";
     const std::string command =
-        std::string("OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1 mpirun -n 2 "
-                    "--oversubscribe ") +
+        std::string(
+            "OMPI_ALLOW_RUN_AS_ROOT=1 OMPI_ALLOW_RUN_AS_ROOT_CONFIRM=1 mpirun -n 2 "
+            "--oversubscribe ") +
         ARCSIEVE_HEEGNER_MPI + " --curve \"[1,-1,0,-5252,-145223]\" --threads 1 2>/dev/null";
     std::unique_ptr<FILE, int (*)(FILE*)> pipe(popen(command.c_str(), "r"), pclose);
     ASSERT_TRUE(pipe);

@@ -16,9 +16,9 @@ TEST(RootNumber, ParityOfKnownRanks) {
     // LMFDB pages of 11a1 (0), 37a1 (1), 389a1 (2), 5077a1 (3), 37.b2 (0), 117a1 (1),
     // 441.a2 (1), 210.d1 (1), 10830.bb2 (1).
     const std::pair<const char*, int> curves[] = {
-        {"[0,-1,1,-10,-20]", 0}, {"[0,0,1,-1,0]", 1},      {"[0,1,1,-2,0]", 2},
-        {"[0,0,1,-7,6]", 3},     {"[0,1,1,-23,-50]", 0},   {"[1,-1,1,4,6]", 1},
-        {"[0,0,1,-21,40]", 1},   {"[1,1,0,-3,-3]", 1},     {"[1,0,0,534,-14004]", 1},
+        {"[0,-1,1,-10,-20]", 0}, {"[0,0,1,-1,0]", 1},    {"[0,1,1,-2,0]", 2},
+        {"[0,0,1,-7,6]", 3},     {"[0,1,1,-23,-50]", 0}, {"[1,-1,1,4,6]", 1},
+        {"[0,0,1,-21,40]", 1},   {"[1,1,0,-3,-3]", 1},   {"[1,0,0,534,-14004]", 1},
     };
     for (const auto& [text, rank] : curves) {
         const auto r = analytic_rank(parse_curve(text), AnalyticOptions{});
@@ -48,11 +48,10 @@ TEST(RootNumber, LocalProductMatchesTheFunctionalEquation) {
         const long a6 = static_cast<long>((state >> 20) % 41) - 20;
         Curve e;
         try {
-            const Curve base = make_curve({Rational(1), Rational(a2), Rational(a3), Rational(a4),
-                                           Rational(a6)});
+            const Curve base =
+                make_curve({Rational(1), Rational(a2), Rational(a3), Rational(a4), Rational(a6)});
             const Rational c4_twist = c4(base) * d * d, c6_twist = c6(base) * d * d * d;
-            e = make_curve({Rational(0), Rational(0), Rational(0), -27 * c4_twist,
-                            -54 * c6_twist});
+            e = make_curve({Rational(0), Rational(0), Rational(0), -27 * c4_twist, -54 * c6_twist});
         } catch (const InputError&) {
             continue;
         }

@@ -1,11 +1,11 @@
 #include <gtest/gtest.h>
 
+#include <cstdlib>
+
 #include "curve/curve.hpp"
 #include "lseries/analytic_rank.hpp"
 #include "lseries/heegner.hpp"
 #include "lseries/special_values.hpp"
-
-#include <cstdlib>
 
 namespace arcsieve::lseries {
 namespace {
@@ -21,14 +21,12 @@ TEST(SpecialValues, Eleven) {
     ASSERT_TRUE(r.root_number);
     EXPECT_EQ(*r.root_number, 1);
     EXPECT_NEAR(mid(r.values[0].value), 0.253841860855911, 1e-12);
-
 }
 
 TEST(SpecialValues, ThirtySeven) {
     const auto r = analytic_rank(parse_curve("[0,0,1,-1,0]"), AnalyticOptions{});
     EXPECT_EQ(*r.root_number, -1);
     EXPECT_NEAR(mid(r.values[0].value), 0.305999773834052, 1e-12);
-
 }
 
 TEST(SpecialValues, HigherOrders) {
@@ -53,9 +51,9 @@ TEST(SpecialValues, Lmfdb37b2CentralValueInsideTheEnclosure) {
     options.digits = 28;
     const auto r = analytic_rank(parse_curve("[0,1,1,-23,-50]"), options);
     EXPECT_EQ(r.proof, RankProof::rank_zero_kolyvagin);
-    const Interval reference = make_interval(
-        Rational(Integer("72568106193615278233620554103"), Integer("100000000000000000000000000000")),
-        40);
+    const Interval reference = make_interval(Rational(Integer("72568106193615278233620554103"),
+                                                      Integer("100000000000000000000000000000")),
+                                             40);
     const Interval difference = r.values[0].value - reference;
     EXPECT_LT(abs(median(difference)).convert_to<double>(), 1e-26);
     EXPECT_LT(width(r.values[0].value).convert_to<double>(), 1e-26);
@@ -98,8 +96,7 @@ TEST(SpecialValues, ExponentialIntegralAgreesWithMpfr) {
         EXPECT_LT(error.convert_to<double>(), std::ldexp(1.0, -static_cast<int>(bits) + 4))
             << "x = " << x << " bits = " << bits;
         const double reference_double = reference.convert_to<double>();
-        EXPECT_TRUE(within(enclosure, reference_double, 1e-16 * reference_double))
-            << "x = " << x;
+        EXPECT_TRUE(within(enclosure, reference_double, 1e-16 * reference_double)) << "x = " << x;
     }
 }
 

@@ -43,8 +43,9 @@ std::vector<std::string> gather_lines(const std::string& mine, int rank, int siz
     std::vector<std::string> lines;
     if (rank == 0) {
         for (int r = 0; r < size; ++r) {
-            lines.push_back(buffer.substr(static_cast<std::size_t>(offsets[static_cast<std::size_t>(r)]),
-                                          static_cast<std::size_t>(lengths[static_cast<std::size_t>(r)])));
+            lines.push_back(
+                buffer.substr(static_cast<std::size_t>(offsets[static_cast<std::size_t>(r)]),
+                              static_cast<std::size_t>(lengths[static_cast<std::size_t>(r)])));
         }
     }
     return lines;
@@ -89,10 +90,10 @@ int run(const Arguments& args, int rank, int size) {
     const std::uint64_t total = plan.max_terms;
     const std::uint64_t begin = 1 + total * static_cast<std::uint64_t>(rank) / size;
     const std::uint64_t end = 1 + total * static_cast<std::uint64_t>(rank + 1) / size;
-    const auto a = lseries::dirichlet_coefficients(lcurve, static_cast<std::uint32_t>(end),
-                                                   args.threads);
-    const auto partial = lseries::heegner_partial_sum(plan, a, begin, end, args.threads,
-                                                      args.time_limit);
+    const auto a =
+        lseries::dirichlet_coefficients(lcurve, static_cast<std::uint32_t>(end), args.threads);
+    const auto partial =
+        lseries::heegner_partial_sum(plan, a, begin, end, args.threads, args.time_limit);
     const auto lines = gather_lines(lseries::serialise(partial), rank, size);
     if (rank != 0) return 0;
     lseries::HeegnerPartialSum sum = lseries::deserialise_partial_sum(lines.front());
@@ -108,10 +109,11 @@ int run(const Arguments& args, int rank, int size) {
     }
     const double seconds =
         std::chrono::duration<double>(std::chrono::steady_clock::now() - start).count();
-    std::cout << fmt::format("point {}\nheight {}\nD {} index {} digits {} terms {} ranks {} "
-                             "seconds {:.2f}\n",
-                             to_string(result->point), result->height.str(20), plan.discriminant,
-                             result->index, plan.digits, plan.total_terms, size, seconds);
+    std::cout << fmt::format(
+        "point {}\nheight {}\nD {} index {} digits {} terms {} ranks {} "
+        "seconds {:.2f}\n",
+        to_string(result->point), result->height.str(20), plan.discriminant, result->index,
+        plan.digits, plan.total_terms, size, seconds);
     return 0;
 }
 
