@@ -30,23 +30,6 @@ struct SmallField {
     std::uint64_t sub(std::uint64_t x, std::uint64_t y) const { return x >= y ? x - y : x + p - y; }
 };
 
-// Jacobi symbol (x/n) for odd n > 0 (binary algorithm; common practice).
-int jacobi(std::uint64_t x, std::uint64_t n) {
-    x %= n;
-    int sign = 1;
-    while (x != 0) {
-        while ((x & 1) == 0) {
-            x >>= 1;
-            const std::uint64_t r = n & 7;
-            if (r == 3 || r == 5) sign = -sign;
-        }
-        std::swap(x, n);
-        if ((x & 3) == 3 && (n & 3) == 3) sign = -sign;
-        x %= n;
-    }
-    return n == 1 ? sign : 0;
-}
-
 // Montgomery arithmetic modulo an odd p < 2^31 with R = 2^32 (Montgomery, Math. Comp. 44
 // (1985); common practice): products reduce without division.
 struct Montgomery {
@@ -277,6 +260,22 @@ std::int64_t count_points_directly(const Curve& e, std::uint64_t p) {
 
 }  // namespace
 
+int jacobi_symbol(std::uint64_t x, std::uint64_t n) {
+    x %= n;
+    int sign = 1;
+    while (x != 0) {
+        while ((x & 1) == 0) {
+            x >>= 1;
+            const std::uint64_t r = n & 7;
+            if (r == 3 || r == 5) sign = -sign;
+        }
+        std::swap(x, n);
+        if ((x & 3) == 3 && (n & 3) == 3) sign = -sign;
+        x %= n;
+    }
+    return n == 1 ? sign : 0;
+}
+
 LSeriesCurve lseries_curve(const Curve& curve) {
     LSeriesCurve result;
     result.input = curve;
@@ -333,7 +332,7 @@ std::int64_t trace_by_baby_giant(std::uint64_t a, std::uint64_t b, std::uint64_t
         const std::uint64_t x = seed % prime;
         const std::uint64_t value = plain.add(plain.mul(plain.add(plain.mul(x, x), a), x), b);
         if (value == 0) continue;
-        const int chi = jacobi(value, prime);
+        const int chi = jacobi_symbol(value, prime);
         const ShortCurve curve{f, f.to(plain.mul(a, plain.mul(value, value)))};
         const AffinePoint P{f.to(plain.mul(x, value)), f.to(plain.mul(value, value)), false};
         // #curve = p + 1 − chi·a_p

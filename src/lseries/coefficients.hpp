@@ -39,6 +39,9 @@ std::int64_t trace_by_baby_giant(std::uint64_t a, std::uint64_t b, std::uint64_t
 // a_p for any prime p (good or bad) of the curve.
 std::int64_t trace_of_frobenius(const LSeriesCurve& curve, std::uint64_t prime);
 
+// Jacobi symbol (x/n) for odd n > 0 (binary algorithm; common practice).
+int jacobi_symbol(std::uint64_t x, std::uint64_t n);
+
 // Primes <= limit (Eratosthenes).
 std::vector<std::uint32_t> primes_up_to(std::uint32_t limit);
 

@@ -312,20 +312,7 @@ int kronecker(long discriminant, std::uint64_t n) {
     if (n == 1) return result;
     const long modulus = static_cast<long>(n);
     const auto residue = static_cast<std::uint64_t>(((discriminant % modulus) + modulus) % modulus);
-    // Jacobi symbol (residue / n), n odd.
-    std::uint64_t x = residue, m = n;
-    int sign = 1;
-    while (x != 0) {
-        while ((x & 1) == 0) {
-            x >>= 1;
-            const std::uint64_t r = m & 7;
-            if (r == 3 || r == 5) sign = -sign;
-        }
-        std::swap(x, m);
-        if ((x & 3) == 3 && (m & 3) == 3) sign = -sign;
-        x %= m;
-    }
-    return m == 1 ? result * sign : 0;
+    return result * jacobi_symbol(residue, n);
 }
 
 Interval twisted_central_value(const Integer& conductor, long discriminant,
