@@ -377,6 +377,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
                 MordellWeilBasis completed = mordell_weil_basis(curve, again, {heegner->point});
                 completed.analytic = result.analytic;
                 completed.analytic->heegner = heegner;
+                for (auto& note : heegner_notes) completed.analytic->notes.push_back(note);
                 completed.root_number = result.root_number;
                 completed.rank.lower = completed.rank.upper.emplace(1);
                 completed.generator_sources = {fmt::format("Heegner point (D = {}, index {})",

@@ -721,8 +721,7 @@ std::optional<HeegnerResult> heegner_point(const Curve& curve, const AnalyticRan
     HeegnerOptions current = options;
     for (int attempt = 0; attempt < 3; ++attempt) {
         const HeegnerPlan plan = plan_heegner(lcurve, *derivative, current);
-        report(
-            options,
+        note(
             fmt::format("Heegner plan: D = {}, {} forms, predicted ĥ(P) = {:.6g} (BSD, |Sha| = "
                         "1), ĥ(y_K) = {:.6g} (Gross–Zagier), index ≈ {:.3g}, {} digits, {} "
                         "terms (max {}), estimate {:.1f} s ({:.3g} core-hours)",
