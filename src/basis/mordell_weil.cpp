@@ -8,12 +8,13 @@
 
 #include "analytic/height.hpp"
 #include "arith/factor.hpp"
-#include "basis/analytic_rank_zero.hpp"
 #include "basis/height_lattice.hpp"
 #include "basis/point_search.hpp"
 #include "basis/saturation.hpp"
 #include "basis/two_isogeny_descent.hpp"
 #include "curve/minimal_model.hpp"
+#include "lseries/analytic_rank.hpp"
+#include "lseries/heegner.hpp"
 
 namespace arcsieve {
 
@@ -115,6 +116,7 @@ bool next_prime_exceeds(int saturated_up_to, double index_bound) {
 BasisOptions BasisOptions::with_effort(int effort) {
     BasisOptions options;
     if (effort < 0) throw InputError("basis effort must be >= 0");
+    if (effort >= 1) options.heegner_time_limit_seconds = 300.0 * effort;
     if (effort == 0) {
         options.search_height_bound = 5000;
         options.quartic_bound = 100;
@@ -154,7 +156,9 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
 
     // Candidates: given points first, then descent points, then the direct search.
     std::vector<Point> candidates;
+    std::vector<const char*> candidate_source;  // route that found each candidate
     for (const Point& p : given) candidates.push_back(to_new_model(w.change, p));
+    candidate_source.assign(candidates.size(), "given");
     std::optional<basis::DescentResult> descent;
     if (w.two_torsion) {
         basis::DescentOptions descent_options;
@@ -165,6 +169,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
             candidates.push_back(to_new_model(w.change, p));
         }
     }
+    candidate_source.resize(candidates.size(), "descent");
     // The direct search runs on the global minimal model, where Silverman's bound applies.
     const ModelWithChange minimal = minimal_model(curve);
     PointSearchOptions search_options;
@@ -173,6 +178,13 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
     for (const Point& p : search_points(minimal.curve, search_options)) {
         candidates.push_back(to_new_model(w.change, to_old_model(minimal.change, p)));
     }
+    candidate_source.resize(candidates.size(), "search");
+    auto record_source = [&](std::size_t index) {
+        const std::string source = candidate_source[index];
+        if (std::find(result.generator_sources.begin(), result.generator_sources.end(), source) ==
+            result.generator_sources.end())
+            result.generator_sources.push_back(source);
+    };
 
     // Independent points generating the same group as the candidates (modulo torsion).
     std::vector<Point> basis_points;
@@ -194,6 +206,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
                     throw InputError("given generators are not independent");
                 }
                 basis_points.push_back(p);
+                record_source(index);
                 gram = height_matrix(w.curve, basis_points, digits);
                 break;
             }
@@ -220,6 +233,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
             const int ell = static_cast<int>(primes.front().get_si());
             const Point q = multiply(w.curve, p, Integer(d / ell));
             basis::enlarge_by_quotient(w.curve, basis_points, relation->numerators, q, ell);
+            record_source(index);
             gram = height_matrix(w.curve, basis_points, digits);
         }
     }
@@ -299,36 +313,92 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
             "(a full 2-descent over the cubic field is not implemented)");
     }
 
-    // Analytic information when the rank is still open: L(E,1) != 0 proves rank 0
-    // (Kolyvagin 1988 with Gross–Zagier and modularity; common practice), and the root number
-    // gives the parity of the rank under the parity conjecture (a remark, not a bound).
+    // Analytic information when the rank is still open (lseries layer): certified L-values,
+    // the root number, and the theorems of Kolyvagin and Gross–Zagier–Kolyvagin.
     if (!result.rank.known() && options.analytic_conductor_bound > 0) {
-        if (const auto central = basis::central_value(curve, options.analytic_conductor_bound)) {
-            result.root_number = central->root_number;
-            if (central->proves_rank_zero() && result.rank.lower == 0) {
-                if (result.rank.upper && *result.rank.upper > 0) {
-                    result.notes.push_back(fmt::format(
-                        "with rank 0 the {} surplus Selmer dimensions of the descent come from "
-                        "Sha(E)[φ] and Sha(E')[φ'] (a non-trivial 2-part of Sha)",
-                        *result.rank.upper));
-                }
-                result.rank.upper = 0;
-                result.notes.push_back(fmt::format(
-                    "rank 0 proved analytically: L(E,1) = {:.12g} (error <= {:.2g}) is nonzero "
-                    "(conductor {}; Kolyvagin's theorem)",
-                    central->value, central->error_bound, to_string(central->conductor)));
-            } else {
-                const int parity = central->root_number == 1 ? 0 : 1;
-                result.notes.push_back(fmt::format(
-                    "root number {:+d} (conductor {}): the parity conjecture predicts an {} rank{}",
-                    central->root_number, to_string(central->conductor), parity ? "odd" : "even",
-                    result.rank.upper && (*result.rank.upper - result.rank.lower) == 1
-                        ? fmt::format(", i.e. rank {}", parity == result.rank.lower % 2
-                                                            ? result.rank.lower
-                                                            : *result.rank.upper)
-                        : ""));
+        lseries::AnalyticOptions analytic_options;
+        analytic_options.threads = options.threads;
+        try {
+            const lseries::LSeriesCurve lcurve = lseries::lseries_curve(curve);
+            if (lcurve.conductor > options.analytic_conductor_bound) {
+                throw InputError(fmt::format(
+                    "conductor {} above the analytic conductor bound {}: raise it to allow",
+                    to_string(lcurve.conductor), to_string(options.analytic_conductor_bound)));
             }
+            lseries::AnalyticReport analytic;
+            analytic.rank = lseries::analytic_rank(curve, analytic_options);
+            result.root_number = analytic.rank.root_number;
+            if (const auto derivative = lseries::first_derivative(analytic.rank)) {
+                analytic.predicted_generator_height =
+                    lseries::predicted_generator_height(lcurve, *derivative, 20)
+                        .height_times_sha.convert_to<double>();
+            }
+            result.analytic = analytic;
+        } catch (const std::exception& refusal) {  // refusal (InputError) or undecided
+            result.notes.push_back(std::string("analytic rank not computed: ") + refusal.what());
         }
+    }
+    if (result.analytic && result.analytic->rank.proven_rank) {
+        const int proven = *result.analytic->rank.proven_rank;
+        if (proven < result.rank.lower || (result.rank.upper && proven > *result.rank.upper)) {
+            throw std::logic_error("analytic rank outside the algebraic rank bounds");
+        }
+        if (proven == 0 && result.rank.upper && *result.rank.upper > 0) {
+            result.notes.push_back(fmt::format(
+                "with rank 0 the {} surplus Selmer dimensions of the descent come from Sha(E)[φ] "
+                "and Sha(E')[φ'] (a non-trivial 2-part of Sha)",
+                *result.rank.upper));
+        }
+        result.rank.lower = proven;
+        result.rank.upper = proven;
+        result.notes.push_back(fmt::format("rank {} proved analytically: {}", proven,
+                                           result.analytic->rank.proof_reason));
+        // >>> Heegner call site (lseries/heegner.hpp): rank 1 proven, no generator found.
+        if (proven == 1 && r == 0 && given.empty() && options.heegner_time_limit_seconds > 0) {
+            lseries::HeegnerOptions heegner_options;
+            heegner_options.threads = options.threads;
+            heegner_options.time_limit_seconds = options.heegner_time_limit_seconds;
+            heegner_options.max_terms = options.heegner_max_terms;
+            std::vector<std::string> heegner_notes;
+            std::optional<lseries::HeegnerResult> heegner;
+            try {
+                heegner = lseries::heegner_point(curve, result.analytic->rank, heegner_options,
+                                                 &heegner_notes);
+            } catch (const InputError& refusal) {
+                heegner_notes.push_back(std::string("Heegner point not computed: ") +
+                                        refusal.what());
+            } catch (const std::runtime_error& stopped) {
+                heegner_notes.push_back(std::string("Heegner point not computed: ") +
+                                        stopped.what());
+            }
+            if (heegner) {
+                BasisOptions again = options;
+                again.analytic_conductor_bound = 0;  // the analytic data is kept from here
+                MordellWeilBasis completed = mordell_weil_basis(curve, again, {heegner->point});
+                completed.analytic = result.analytic;
+                completed.analytic->heegner = heegner;
+                for (auto& note : heegner_notes) completed.analytic->notes.push_back(note);
+                completed.root_number = result.root_number;
+                completed.rank.lower = completed.rank.upper.emplace(1);
+                completed.generator_sources = {fmt::format("Heegner point (D = {}, index {})",
+                                                           heegner->discriminant, heegner->index)};
+                completed.notes.insert(completed.notes.begin(), result.notes.begin(),
+                                       result.notes.end());
+                return completed;
+            }
+            for (auto& note : heegner_notes) result.analytic->notes.push_back(note);
+            result.notes.push_back(
+                "rank 1 is proved but no generator was found (search, descent and the Heegner "
+                "construction; see the analytic notes)");
+        }
+        // <<< Heegner call site.
+    } else if (result.analytic && result.analytic->rank.root_number) {
+        const int parity = *result.analytic->rank.root_number == 1 ? 0 : 1;
+        result.notes.push_back(fmt::format(
+            "root number {:+d} (conductor {}): the parity conjecture predicts an {} rank; the "
+            "L-value enclosure at the order used contains 0, so no rank is proved analytically",
+            *result.analytic->rank.root_number, to_string(result.analytic->rank.conductor),
+            parity ? "odd" : "even"));
     }
 
     // How far saturation is proved to be enough.
@@ -355,6 +425,7 @@ MordellWeilBasis mordell_weil_basis(const Curve& curve, const BasisOptions& opti
         // The empty set of generators spans only the torsion, which is saturated by definition;
         // whether that is all of E(Q) is the rank question (MordellWeilBasis::generates).
         result.saturated_up_to = options.saturation_prime_bound;
+        // (rank 1 proved analytically without a generator: generates() is false, full_rank fails)
         result.saturation_complete = true;
     }
     return result;

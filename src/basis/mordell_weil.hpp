@@ -11,6 +11,7 @@
 #include "analytic/real.hpp"
 #include "curve/point.hpp"
 #include "curve/torsion.hpp"
+#include "lseries/report.hpp"
 
 namespace arcsieve {
 
@@ -21,9 +22,14 @@ struct BasisOptions {
     std::int64_t quartic_bound = 400;
     // Saturation is proved at every prime ℓ <= saturation_prime_bound (or fails with a note).
     int saturation_prime_bound = 50;
-    // Rank-0 certificate by L(E,1) != 0 and root numbers for the parity remark, for curves of
-    // conductor up to this bound (basis/analytic_rank_zero.hpp); 0 switches it off.
-    Integer analytic_conductor_bound{1000000};
+    // Proven ranks from certified L-values (lseries/analytic_rank.hpp) for curves of conductor
+    // up to this bound when descent and search leave the rank open; 0 switches it off.
+    Integer analytic_conductor_bound{100'000'000'000};
+    // Heegner point (lseries/heegner.hpp) when rank 1 is proven and no generator was found;
+    // the sum is refused (with its cost in the notes) above this time or this many terms.
+    // 0 switches it off (the default; with_effort(e >= 1) sets 300·e seconds).
+    double heegner_time_limit_seconds = 0;
+    std::uint64_t heegner_max_terms = 400'000'000;
     unsigned digits = 30;  // correct decimal digits of heights and regulator
     unsigned threads = 0;  // 0: TBB decides
 
@@ -64,6 +70,12 @@ struct MordellWeilBasis {
     bool saturation_complete = false;
     std::optional<DescentSummary> descent;
     std::optional<int> root_number;  // from the functional equation, when computed
+    // Analytic data (root number, L-value enclosures, proven rank and its theorem, BSD height
+    // prediction, the Heegner construction) when the lseries layer was used.
+    std::optional<lseries::AnalyticReport> analytic;
+    // How the points behind the generators were found: "given", "descent", "search",
+    // "Heegner (D = ..., index ...)"; one entry per route that contributed.
+    std::vector<std::string> generator_sources;
     std::vector<std::string> notes;
 
     // As many independent generators as the rank, and the rank proven: only then do the

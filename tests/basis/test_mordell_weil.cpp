@@ -68,7 +68,11 @@ TEST(MordellWeilBasis, LmfdbRankOneCurvesGetPublishedRegulator) {
             ASSERT_TRUE(b.descent.has_value()) << c.label;
             EXPECT_TRUE(b.rank.known()) << c.label << ": " << describe(b);
         } else {
-            EXPECT_FALSE(b.rank.upper.has_value()) << c.label;
+            // No descent here: w = −1 and L'(E,1) != 0 (lseries enclosures) prove rank 1.
+            ASSERT_TRUE(b.analytic.has_value()) << c.label;
+            EXPECT_EQ(b.analytic->rank.proof, lseries::RankProof::rank_one_gross_zagier_kolyvagin)
+                << c.label;
+            EXPECT_TRUE(b.rank.known()) << c.label << ": " << describe(b);
         }
         EXPECT_GE(b.saturated_up_to, 47) << c.label << ": " << describe(b);
     }
@@ -126,8 +130,10 @@ TEST(MordellWeilBasis, Curve877QuarticSearchFallsShortButGivenGeneratorSettlesIt
     const Curve e = parse_curve("[0,0,0,877,0]");
     const auto searched = mordell_weil_basis(e, test_options());
     // The generator's quartic point has coordinates near 10^10: far beyond the search; the
-    // descent still bounds the rank by 1 and the result must admit the gap.
-    EXPECT_EQ(searched.rank.lower, 0) << describe(searched);
+    // descent bounds the rank by 1, L'(E,1) != 0 proves rank 1 (lseries layer; Heegner off in
+    // these options), and the result must admit the missing generator.
+    EXPECT_EQ(searched.rank.lower, 1) << describe(searched);
+    EXPECT_TRUE(searched.generators.empty());
     ASSERT_TRUE(searched.rank.upper.has_value());
     EXPECT_EQ(*searched.rank.upper, 1);
     EXPECT_FALSE(searched.settled());
